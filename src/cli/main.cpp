@@ -1,0 +1,56 @@
+// scaleproof: entry point. Parses the command line, runs one subcommand, and is the only
+// place that catches exceptions: sp::Error -> its message and exit code; CLI11 parse errors
+// -> usage (2); anything else -> internal (70).
+#include <unistd.h>
+
+#include <cstdio>
+#include <cstdlib>
+#include <iostream>
+
+#include "cli/commands.h"
+#include "cli/suggest.h"
+#include "core/error.h"
+
+namespace {
+
+int run(int argc, char** argv) {
+  sp::cli::Context ctx;
+  CLI::App app{"scaleproof: weigh-ticket reconciliation and signed weigh-reports for "
+               "weight-distributing hitch setups"};
+  app.set_version_flag("--version", std::string("scaleproof ") + SCALEPROOF_VERSION);
+  app.option_defaults()->always_capture_default();
+  app.fallthrough();  // global options are accepted after the subcommand too
+  app.add_option("--db", ctx.db_path, "Ticket store (SQLite); default $SCALEPROOF_DB, else "
+                                      "$XDG_DATA_HOME/scaleproof/store.db");
+  app.add_flag("-q,--quiet", ctx.quiet, "Print only errors and the data asked for");
+  app.add_option("--units", ctx.units, "Convert output: us (lb, in) or metric (kg, mm)")
+      ->check(CLI::IsMember({"us", "metric"}));
+  app.require_subcommand(1);
+  ctx.colour = isatty(STDOUT_FILENO) != 0 && std::getenv("NO_COLOR") == nullptr;
+
+  sp::cli::register_reconcile(app, ctx);
+
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    int code = app.exit(e);
+    if (code == 0) return 0;  // --help, --version
+    sp::cli::print_suggestion(app, argc, argv);
+    return static_cast<int>(sp::ExitCode::usage);
+  }
+  return ctx.exit_code;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  try {
+    return run(argc, argv);
+  } catch (const sp::Error& e) {
+    std::cerr << "scaleproof: " << e.what() << "\n";
+    return static_cast<int>(e.code());
+  } catch (const std::exception& e) {
+    std::cerr << "scaleproof: internal error: " << e.what() << "\n";
+    return static_cast<int>(sp::ExitCode::internal);
+  }
+}
