@@ -29,6 +29,21 @@ int run(int argc, char** argv) {
   ctx.colour = isatty(STDOUT_FILENO) != 0 && std::getenv("NO_COLOR") == nullptr;
 
   sp::cli::register_reconcile(app, ctx);
+  sp::cli::register_key(app, ctx);
+  sp::cli::register_report(app, ctx);
+  sp::cli::register_verify(app, ctx);
+  sp::cli::register_plan(app, ctx);
+  sp::cli::register_demo(app, ctx);
+  sp::cli::register_docs(app, ctx);  // hidden: man, completion
+  sp::cli::register_init(app, ctx);
+  sp::cli::register_scale(app, ctx);
+  sp::cli::register_rig(app, ctx);
+  sp::cli::register_session(app, ctx);
+  sp::cli::register_pass(app, ctx);
+  sp::cli::register_import(app, ctx);
+  sp::cli::register_export(app, ctx);
+  sp::cli::register_check_store(app, ctx);
+  sp::cli::register_audit(app, ctx);
 
   try {
     app.parse(argc, argv);

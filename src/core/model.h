@@ -59,6 +59,8 @@ struct Pass {
   double drive = 0;
   std::optional<double> trailer;       // absent or 0 for unhitched
   std::optional<double> gross;         // printed gross, when the ticket shows one
+  std::optional<std::string> scale_id; // scale that printed the ticket when it differs from
+                                       // the session's (audits flag mixed scales)
   // Store-side facts; a session file may carry them too. Voided passes are kept for the
   // record (reports show them struck) but never enter the solution.
   std::optional<long long> id;         // store row id, when from the store

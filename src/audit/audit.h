@@ -1,0 +1,151 @@
+// Claim-file audit: the rules an insurer applies to weigh-reports, session files and store
+// sessions before relying on them.
+//
+// Pure library over plain structs: no I/O, no clock, no globals, no printing. The caller
+// (the CLI's loaders) fills one AuditItem per weighing it read, with the engine's
+// reconciliation and, for signed reports, the verification facts; the Auditor applies every
+// rule and returns findings grouped by item, worst first.
+//
+// Units: every weight in an item is in its session's weight unit (core/model.h); findings'
+// evidence carries the unit beside each number. Times: "weighed_at" strings are ISO 8601
+// date-times with an offset (session file format); dates are "YYYY-MM-DD".
+// Streaming: Auditor::add keeps only a compact per-item summary and a ticket index, so an audit
+// over a whole store (100 000 sessions) holds no Session or ReconcileResult beyond the one
+// being added.
+#pragma once
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/model.h"
+#include "engine/result.h"
+
+namespace sp::audit {
+
+// Where an item came from. A report is a signed weigh-report PDF, a session a session file,
+// a store item one session of the ticket store.
+enum class ItemKind { report, session, store };
+std::string_view to_string(ItemKind k);
+
+// One recorded inspection (certification) of a scale.
+struct Inspection {
+  std::string date;                      // "YYYY-MM-DD"
+  std::optional<std::string> reference;  // seal or certificate number, when recorded
+};
+
+// What verifying a signed report established (filled by the report verifier's loader).
+struct VerificationFacts {
+  bool record_signature_ok = false;    // the embedded weigh record's signature holds
+  std::string key_fingerprint;         // of the key that signed it (report/signer.h format)
+  bool key_trusted = false;            // that fingerprint is among the insurer's --trust keys
+  bool detached_present = false;       // a "<report>.pdf.sig" lay beside the PDF
+  bool detached_ok = false;            // ... and it verifies the PDF's bytes with that key
+  bool record_matches = true;          // stated results equal the recomputation
+  std::vector<std::string> mismatches; // one line per differing result, when not
+};
+
+struct AuditItem {
+  std::string source;  // file path, or "<store>#<session id>"
+  std::string claim;   // the claim it belongs to: the PATH argument (folder or file) or store
+  ItemKind kind = ItemKind::session;
+  Session session;
+  // The engine's result for `session` (for a report: recomputed from the embedded record).
+  // nullopt when reconcile() threw; `reconcile_error` then says why.
+  std::optional<ReconcileResult> result;
+  std::optional<std::string> reconcile_error;
+  std::optional<VerificationFacts> verification;  // reports only
+  // The scale's inspection history when known (store); when nullopt the rules fall back to
+  // session.scale.last_inspected.
+  std::optional<std::vector<Inspection>> inspections;
+};
+
+struct AuditOptions {
+  // The audit clock: seconds since 1970-01-01T00:00:00Z. Required (the library reads no clock);
+  // the CLI passes the system time.
+  std::int64_t now = 0;
+  // Date of the incident or of the policy check, "YYYY-MM-DD"; stale-weighing needs it.
+  std::optional<std::string> claim_date;
+  // First to last pass of one session. 60 min: the issue's default; a rig parked longer may
+  // have been loaded or unloaded between passes (common practice).
+  int max_span_minutes = 60;
+  // No inspection within this many months before the weighing: inspection-lapsed. 12 months is
+  // the usual annual certification cycle (common practice; jurisdictions differ).
+  int inspection_months = 12;
+  // Weighing more than this many days before the claim date: stale-weighing (issue #5 default).
+  int stale_days = 180;
+  // Station clocks are not synchronised to the second; a ticket up to this far ahead of the
+  // audit clock is not yet "future" (common practice: a few minutes of clock drift).
+  int future_slack_minutes = 5;
+  // Whether the insurer named any trusted key. Without one every report key is unknown, which is
+  // reported as a warning (origin unproven) instead of an error.
+  bool trust_list_given = false;
+};
+
+// One number or fact shown as evidence. `text` is what people read (value with unit);
+// `number`/`unit` are for machines (JSON) when the fact is numeric.
+struct EvidenceValue {
+  std::string name;
+  std::string text;
+  std::optional<double> number;
+  std::string unit;
+};
+
+struct Finding {
+  std::string code;  // e.g. "ticket-reuse"; the codes are listed in audit_rules.cpp
+  Severity severity = Severity::warning;
+  std::string message;  // plain language, with the numbers
+  std::optional<std::string> ticket;
+  std::optional<std::string> platform;
+  std::vector<EvidenceValue> values;
+  std::string rule;  // the rule applied, with its source ("NIST HB 44 Table 3", "common practice")
+};
+
+// Findings for one item, worst first (error, warning, note; then in rule order).
+struct ItemAudit {
+  std::string source;
+  std::string claim;
+  ItemKind kind = ItemKind::session;
+  std::string label;  // "session 12 at scale ST-3, 2026-10-14" etc.
+  WeightUnit weight_unit = WeightUnit::lb;
+  std::vector<Finding> findings;
+  int count(Severity s) const;
+  // Worst severity present; nullopt when clean.
+  std::optional<Severity> worst() const;
+};
+
+struct AuditResult {
+  std::vector<ItemAudit> items;  // worst item first; input order among equals
+  int errors = 0, warnings = 0, notes = 0;
+  int clean_items = 0;  // items without any finding
+};
+
+// The per-item rules (everything except ticket-reuse, which needs the other items).
+// Precondition: options.now set. Never throws on odd data: a rule that cannot be applied
+// (unreadable time, missing reading) says so as a finding.
+std::vector<Finding> audit_item(const AuditItem& item, const AuditOptions& options);
+
+// Applies audit_item to each item and ticket-reuse across all items added (across claims too).
+class Auditor {
+ public:
+  explicit Auditor(AuditOptions options);
+  ~Auditor();
+  Auditor(const Auditor&) = delete;
+  Auditor& operator=(const Auditor&) = delete;
+  void add(const AuditItem& item);
+  // Sorted result; the Auditor is left empty.
+  AuditResult finish();
+
+ private:
+  struct State;
+  std::unique_ptr<State> state_;
+};
+
+// Convenience: all items at once.
+AuditResult run_audit(const std::vector<AuditItem>& items, const AuditOptions& options);
+
+// A short label for an item: session id or file, scale, date of the first pass.
+std::string item_label(const AuditItem& item);
+
+}  // namespace sp::audit

@@ -1,0 +1,163 @@
+// The Auditor: per-item rules, plus ticket-reuse across every item added.
+//
+//   ticket-reuse  error  the same ticket number at the same scale in two sessions (or two
+//                        claims). A scale numbers its tickets once, so a second weighing cannot
+//                        carry the same number. Exception: within one claim, a report and a
+//                        session file may describe the same weighing; when the pass is
+//                        identical (time and readings) and neither copy comes from the store,
+//                        the two are one weighing documented twice, not a reuse. Across claims
+//                        an identical pass is exactly the reuse the rule is for.
+// "Same scale": the pass's scale id (its own, else the session's); when both sessions name
+// their station and the stations differ, the scales are different ones.
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <map>
+#include <unordered_map>
+
+#include "audit/rules_internal.h"
+
+namespace sp::audit {
+
+namespace {
+
+struct Occurrence {
+  std::uint32_t item = 0;   // index into State::items
+  std::uint32_t claim = 0;  // index into State::claims
+  ItemKind kind = ItemKind::session;
+  std::optional<std::string> station;
+  std::string weighed_at;
+  std::optional<std::int64_t> utc;
+  double steer = 0, drive = 0, trailer = 0;
+};
+
+int rank(std::optional<Severity> s) { return s ? static_cast<int>(*s) : 3; }
+
+}  // namespace
+
+struct Auditor::State {
+  AuditOptions options;
+  std::vector<ItemAudit> items;
+  std::vector<std::string> claims;
+  std::unordered_map<std::string, std::uint32_t> claim_index;
+  std::unordered_map<std::string, Occurrence> tickets;  // "<scale>\x1f<ticket>" -> first seen
+};
+
+Auditor::Auditor(AuditOptions options) : state_(std::make_unique<State>()) {
+  state_->options = std::move(options);
+}
+Auditor::~Auditor() = default;
+
+void Auditor::add(const AuditItem& item) {
+  State& st = *state_;
+  const auto index = static_cast<std::uint32_t>(st.items.size());
+  ItemAudit ia;
+  ia.source = item.source;
+  ia.claim = item.claim;
+  ia.kind = item.kind;
+  ia.label = item_label(item);
+  ia.weight_unit = item.session.units.weight;
+  ia.findings = audit_item(item, st.options);
+
+  auto [cit, fresh_claim] =
+      st.claim_index.emplace(item.claim, static_cast<std::uint32_t>(st.claims.size()));
+  if (fresh_claim) st.claims.push_back(item.claim);
+  const std::uint32_t claim = cit->second;
+
+  // Reused tickets, grouped by the earlier item they collide with: one finding per pair.
+  struct Reuse {
+    std::vector<std::string> tickets, scales;
+    bool identical = true;
+  };
+  std::map<std::uint32_t, Reuse> reuse;
+  const Session& s = item.session;
+  for (const Pass& p : s.passes) {
+    if (p.voided) continue;
+    const std::string& scale = detail::pass_scale(s, p);
+    Occurrence occ;
+    occ.item = index;
+    occ.claim = claim;
+    occ.kind = item.kind;
+    occ.station = s.station;
+    occ.weighed_at = p.weighed_at;
+    if (auto t = parse_date_time(p.weighed_at)) occ.utc = t->utc_seconds;
+    occ.steer = p.steer;
+    occ.drive = p.drive;
+    occ.trailer = p.trailer.value_or(0);
+    std::string key = scale;
+    key += '\x1f';
+    key += p.ticket;
+    auto [it, fresh] = st.tickets.emplace(std::move(key), occ);
+    if (fresh) continue;
+    const Occurrence& first = it->second;
+    if (first.item == index) continue;  // twice in one session: duplicate-pass's business
+    if (first.station && occ.station && *first.station != *occ.station) continue;
+    const bool identical = first.utc == occ.utc && first.weighed_at == occ.weighed_at &&
+                           first.steer == occ.steer && first.drive == occ.drive &&
+                           first.trailer == occ.trailer;
+    if (identical && first.claim == claim && first.kind != ItemKind::store &&
+        occ.kind != ItemKind::store) {
+      continue;  // one weighing documented twice in one claim (report + its session file)
+    }
+    Reuse& r = reuse[first.item];
+    r.tickets.push_back(p.ticket);
+    if (std::find(r.scales.begin(), r.scales.end(), scale) == r.scales.end()) {
+      r.scales.push_back(scale);
+    }
+    r.identical = r.identical && identical;
+  }
+  for (const auto& [other_index, r] : reuse) {
+    ItemAudit& other = st.items[other_index];
+    const bool cross_claim = other.claim != item.claim;
+    const std::string tickets = fmt::format("{}", fmt::join(r.tickets, ", "));
+    const std::string scales = fmt::format("{}", fmt::join(r.scales, ", "));
+    auto make = [&](const std::string& elsewhere, const std::string& elsewhere_claim) {
+      Finding f = detail::make_finding(
+          "ticket-reuse", Severity::error,
+          fmt::format("{} {} of scale {} also {} in {}{}, {}. A scale numbers each ticket once, "
+                      "so the two cannot both be the weighing they claim to be.",
+                      r.tickets.size() == 1 ? "Ticket" : "Tickets", tickets, scales,
+                      r.tickets.size() == 1 ? "appears" : "appear", elsewhere,
+                      cross_claim ? " (claim " + elsewhere_claim + ")" : std::string(),
+                      r.identical ? "with the same times and readings"
+                                  : "with other times or readings"),
+          "one ticket number per weighing at one scale (common practice)");
+      f.ticket = r.tickets.front();
+      f.values = {detail::text_value("tickets", tickets), detail::text_value("scale", scales),
+                  detail::text_value("also in", elsewhere)};
+      return f;
+    };
+    ia.findings.push_back(make(other.source, other.claim));
+    other.findings.push_back(make(item.source, item.claim));
+  }
+  st.items.push_back(std::move(ia));
+}
+
+AuditResult Auditor::finish() {
+  AuditResult r;
+  r.items = std::move(state_->items);
+  for (auto& ia : r.items) {
+    std::stable_sort(ia.findings.begin(), ia.findings.end(), [](const Finding& a, const Finding& b) {
+      return static_cast<int>(a.severity) < static_cast<int>(b.severity);
+    });
+    r.errors += ia.count(Severity::error);
+    r.warnings += ia.count(Severity::warning);
+    r.notes += ia.count(Severity::note);
+    r.clean_items += ia.findings.empty() ? 1 : 0;
+  }
+  std::stable_sort(r.items.begin(), r.items.end(), [](const ItemAudit& a, const ItemAudit& b) {
+    return rank(a.worst()) < rank(b.worst());
+  });
+  AuditOptions keep = std::move(state_->options);
+  state_ = std::make_unique<State>();
+  state_->options = std::move(keep);
+  return r;
+}
+
+AuditResult run_audit(const std::vector<AuditItem>& items, const AuditOptions& options) {
+  Auditor a(options);
+  for (const auto& i : items) a.add(i);
+  return a.finish();
+}
+
+}  // namespace sp::audit

@@ -1,0 +1,49 @@
+// Rendering of an audit: the readable findings table, the --json document and the summary PDF.
+//
+// Pure: strings in, strings (or bytes) out. Every rendering carries the audit's limits, the
+// inputs that could not be read (each named) and the cautions: an audit checks documents, it
+// does not replace the vehicle and hitch makers' instructions, local law or a qualified
+// inspection.
+// JSON document (format "scaleproof-audit/1"):
+//   {"format", "audited_at", "claim_date" (or null),
+//    "limits": {"max_span_minutes", "inspection_months", "stale_days", "future_slack_minutes"},
+//    "trusted_keys": [fingerprint...],
+//    "summary": {"items", "errors", "warnings", "notes", "clean", "unreadable"},
+//    "items": [{"source", "claim", "kind", "label", "worst" (or null),
+//               "findings": [{"code", "severity", "message", "ticket", "platform", "rule",
+//                             "evidence": [{"name", "text", "value", "unit"}]}]}],
+//    "unreadable": [{"source", "message"}],
+//    "cautions": [text...]}
+// Items and findings are in the AuditResult's order (worst first).
+#pragma once
+#include <nlohmann/json.hpp>
+#include <string>
+#include <vector>
+
+#include "audit/audit.h"
+
+namespace sp::audit {
+
+struct Unreadable {
+  std::string source;
+  std::string message;  // the loader's error, naming the file and what was expected
+};
+
+struct AuditReport {
+  AuditResult result;
+  std::vector<Unreadable> unreadable;
+  AuditOptions options;
+  std::vector<std::string> trusted_keys;  // fingerprints of the --trust keys
+};
+
+// The cautions printed with every audit (audit's own line + the weigh-report's first caution).
+std::vector<std::string> audit_cautions();
+
+// Text table grouped by item, worst first. Clean items are listed one line each up to
+// `max_clean_lines`, then only counted (an audit of a whole store has many).
+std::string audit_text(const AuditReport& report, bool colour, std::size_t max_clean_lines = 50);
+nlohmann::ordered_json audit_json(const AuditReport& report);
+// The audit summary PDF (A4), bytes. Throws sp::Error(internal) when the PDF cannot be made.
+std::string audit_pdf(const AuditReport& report);
+
+}  // namespace sp::audit

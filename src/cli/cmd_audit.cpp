@@ -1,0 +1,135 @@
+// `scaleproof audit PATH... | --session N | --all`: the claim-file audit for insurers.
+// Loads reports, session files, folders of them, or store sessions (audit/load.h), applies the
+// audit rules (audit/audit.h) and prints the findings (audit/output.h). Exit 0 when no finding
+// is an error, 1 when any is, 65 when an input could not be read (each is named on stderr).
+#include <chrono>
+#include <iostream>
+
+#include "audit/audit.h"
+#include "audit/calendar.h"
+#include "audit/load.h"
+#include "audit/output.h"
+#include "cli/commands.h"
+#include "cli/store_cli.h"
+#include "core/error.h"
+#include "report/key_files.h"
+
+namespace sp::cli {
+namespace {
+
+struct AuditOpts {
+  std::vector<std::string> paths;
+  long long session = 0;
+  bool all = false;
+  std::vector<std::string> trust;
+  std::string claim_date;
+  std::string audit_time;
+  int max_span_minutes = 60;
+  int inspection_months = 12;
+  int stale_days = 180;
+  bool json = false;
+  std::string pdf;
+};
+
+std::string check_date(const std::string& v) {
+  return audit::parse_date(v) ? "" : "expected a date YYYY-MM-DD, got '" + v + "'";
+}
+
+std::string check_time(const std::string& v) {
+  return audit::parse_date_time(v) ? ""
+                                   : "expected a date-time YYYY-MM-DDThh:mm:ss with Z or an "
+                                     "offset, got '" + v + "'";
+}
+
+}  // namespace
+
+void register_audit(CLI::App& app, Context& ctx) {
+  auto* sub = app.add_subcommand(
+      "audit",
+      "Audit a claim file: weigh-reports, session files or store sessions\n"
+      "  e.g. scaleproof audit claims/4711/ --trust keys/station-3.pub.pem --claim-date 2026-11-02");
+  sub->footer("Examples:\n  scaleproof audit claims/4711/ --trust keys/station.pub.pem --claim-date 2026-11-18\n  scaleproof audit --all --json");
+  auto o = std::make_shared<AuditOpts>();
+  auto* paths = sub->add_option("PATH", o->paths,
+                                "Weigh-report PDFs (with their .sig beside them), session files, "
+                                "or folders holding them (one folder = one claim)");
+  auto* session = sub->add_option("--session", o->session, "Audit one session of the store (--db)")
+                      ->check(CLI::Range(1LL, 1LL << 53));
+  auto* all = sub->add_flag("--all", o->all, "Audit every session of the store (--db)");
+  paths->excludes(session)->excludes(all);
+  session->excludes(all);
+  sub->add_option("--trust", o->trust,
+                  "Station public key you accept (NAME.pub.pem), or a folder of them; repeatable");
+  sub->add_option("--claim-date", o->claim_date, "Date of the incident or policy check, YYYY-MM-DD")
+      ->check(check_date);
+  sub->add_option("--audit-time", o->audit_time,
+                  "The audit's clock, ISO 8601 with offset (default: now); for reproducible audits")
+      ->check(check_time);
+  sub->add_option("--max-span-minutes", o->max_span_minutes,
+                  "Longest first-to-last pass span of one session")
+      ->check(CLI::Range(0, 100000));
+  sub->add_option("--inspection-months", o->inspection_months,
+                  "A scale inspection must lie within this many months before the weighing")
+      ->check(CLI::Range(0, 1200));
+  sub->add_option("--stale-days", o->stale_days,
+                  "Longest time from weighing to --claim-date")
+      ->check(CLI::Range(0, 100000));
+  sub->add_flag("--json", o->json, "Print the audit as JSON (format scaleproof-audit/1)");
+  sub->add_option("--pdf", o->pdf, "Also write an audit summary PDF to this file (not overwritten)");
+
+  sub->callback([o, paths, session, all, &ctx] {
+    if (!*paths && !*session && !*all) {
+      throw usage_error("audit: give PATH... (reports, session files, claim folders), "
+                        "--session N or --all");
+    }
+    audit::AuditOptions opt;
+    if (!o->audit_time.empty()) {
+      opt.now = audit::parse_date_time(o->audit_time)->utc_seconds;
+    } else {
+      opt.now = std::chrono::duration_cast<std::chrono::seconds>(
+                    std::chrono::system_clock::now().time_since_epoch())
+                    .count();
+    }
+    if (!o->claim_date.empty()) opt.claim_date = o->claim_date;
+    opt.max_span_minutes = o->max_span_minutes;
+    opt.inspection_months = o->inspection_months;
+    opt.stale_days = o->stale_days;
+    const auto trusted = audit::load_trusted_keys(o->trust);
+    opt.trust_list_given = !trusted.empty();
+
+    audit::LoadObserver observer;
+    observer.on_unreadable = [](const audit::Unreadable& u) {
+      std::cerr << "scaleproof: " << u.message << "\n";
+    };
+    observer.on_skipped = [&ctx](const std::string& path, const std::string& why) {
+      if (!ctx.quiet) std::cerr << "scaleproof: skipped " << path << ": " << why << "\n";
+    };
+    audit::AuditReport rep;
+    if (*paths) {
+      rep = audit::audit_paths(o->paths, trusted, opt, observer);
+    } else {
+      auto db = open_store(ctx);
+      std::optional<long long> one;
+      if (*session) one = o->session;
+      rep = audit::audit_store(*db, resolve_db_path(ctx), one, opt, observer);
+      // Store sessions carry no signatures: the trust list still shows what was given.
+      for (const auto& k : trusted) rep.trusted_keys.push_back(k.fingerprint);
+    }
+
+    if (o->json) {
+      std::cout << audit::audit_json(rep).dump(2) << "\n";
+    } else {
+      std::cout << audit::audit_text(rep, ctx.colour);
+    }
+    if (!o->pdf.empty()) {
+      report::write_file_atomic(o->pdf, audit::audit_pdf(rep), /*exclusive=*/true);
+      if (!ctx.quiet && !o->json) std::cout << "Audit summary written to " << o->pdf << "\n";
+    }
+    ExitCode code = !rep.unreadable.empty() ? ExitCode::data_error
+                    : rep.result.errors > 0 ? ExitCode::check_failed
+                                            : ExitCode::ok;
+    ctx.exit_code = static_cast<int>(code);
+  });
+}
+
+}  // namespace sp::cli

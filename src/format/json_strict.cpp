@@ -1,0 +1,295 @@
+#include "format/json_strict.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <set>
+
+#include "core/error.h"
+
+namespace sp::format {
+
+using nlohmann::json;
+
+void fail_at(const std::string& source, const std::string& path, const std::string& message) {
+  throw data_error(source + ": " + path + ": " + message);
+}
+
+std::string number_text(double v) {
+  if (v == 0) return "0";
+  char buf[64];
+  // %.10g: enough digits for any limit or reading we print, never an exponent for them.
+  std::snprintf(buf, sizeof buf, "%.10g", v);
+  return buf;
+}
+
+TextPosition text_position(std::string_view text, std::size_t byte) {
+  TextPosition p;
+  const std::size_t end = std::min(byte, text.size());
+  for (std::size_t i = 0; i < end; ++i) {
+    if (text[i] == '\n') {
+      ++p.line;
+      p.column = 1;
+    } else {
+      ++p.column;
+    }
+  }
+  return p;
+}
+
+namespace {
+
+// Our documents nest four levels; 64 leaves room for any future version and stops a hostile
+// file from building a huge, deep tree.
+constexpr std::size_t kMaxDepth = 64;
+
+// Tracks where the parser is, so a repeated key can be reported with its JSON path.
+struct Frame {
+  bool is_array = false;
+  std::size_t next_index = 0;
+  std::string child;  // ".key" or "[i]" of the child being read
+  std::set<std::string> keys;
+};
+
+std::string path_through(const std::vector<Frame>& frames, std::size_t count) {
+  std::string p = "$";
+  for (std::size_t i = 0; i < count && i < frames.size(); ++i) p += frames[i].child;
+  return p;
+}
+
+// nlohmann's messages start with "[json.exception.parse_error.101] parse error at line 1,
+// column 2: "; keep only the explanation after the last ": " prefix of that form.
+std::string explanation(const std::string& what) {
+  std::string s = what;
+  if (auto b = s.find("] "); b != std::string::npos) s = s.substr(b + 2);
+  if (s.rfind("parse error", 0) == 0) {
+    if (auto c = s.find(": "); c != std::string::npos) s = s.substr(c + 2);
+  }
+  return s;
+}
+
+}  // namespace
+
+json parse_json_strict(std::string_view text, const std::string& source) {
+  std::vector<Frame> frames;
+  auto on_event = [&](int /*depth*/, json::parse_event_t event, json& parsed) -> bool {
+    auto begin_child = [&] {
+      if (!frames.empty() && frames.back().is_array) {
+        frames.back().child = "[" + std::to_string(frames.back().next_index++) + "]";
+      }
+    };
+    switch (event) {
+      case json::parse_event_t::object_start:
+      case json::parse_event_t::array_start:
+        begin_child();
+        if (frames.size() >= kMaxDepth) {
+          fail_at(source, path_through(frames, frames.size()),
+                  "expected at most " + std::to_string(kMaxDepth) +
+                      " levels of nested objects and arrays");
+        }
+        frames.push_back(Frame{event == json::parse_event_t::array_start, 0, {}, {}});
+        break;
+      case json::parse_event_t::object_end:
+      case json::parse_event_t::array_end:
+        if (!frames.empty()) frames.pop_back();
+        break;
+      case json::parse_event_t::key: {
+        const std::string key = parsed.get<std::string>();
+        Frame& f = frames.back();
+        f.child = "." + key;
+        if (!f.keys.insert(key).second) {
+          fail_at(source, path_through(frames, frames.size()),
+                  "key '" + key + "' appears twice in the same object; give it once");
+        }
+        break;
+      }
+      case json::parse_event_t::value:
+        begin_child();
+        break;
+    }
+    return true;
+  };
+  try {
+    return json::parse(text.begin(), text.end(), on_event, /*allow_exceptions=*/true,
+                       /*ignore_comments=*/false);
+  } catch (const json::parse_error& e) {
+    // e.byte is the 1-based index of the last character read: the offending character, or
+    // the end of the offending token (a string or number is read whole before it is judged).
+    const TextPosition p = text_position(text, e.byte > 0 ? e.byte - 1 : 0);
+    throw data_error(source + ": line " + std::to_string(p.line) + ", column " +
+                     std::to_string(p.column) + ": invalid JSON: " + explanation(e.what()));
+  } catch (const json::out_of_range& e) {
+    throw data_error(source + ": invalid JSON: " + explanation(e.what()) +
+                     " (expected a number a double can hold)");
+  }
+}
+
+std::string closest_name(const std::string& word, const std::vector<std::string>& candidates) {
+  // Optimal-string-alignment distance over bytes: Levenshtein plus adjacent transpositions
+  // ("gvrw" -> "gvwr" is one edit), the commonest typing slip.
+  auto distance = [](const std::string& a, const std::string& b) {
+    std::vector<std::vector<std::size_t>> d(a.size() + 1, std::vector<std::size_t>(b.size() + 1));
+    for (std::size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
+    for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
+    for (std::size_t i = 1; i <= a.size(); ++i) {
+      for (std::size_t j = 1; j <= b.size(); ++j) {
+        const std::size_t cost = a[i - 1] == b[j - 1] ? 0 : 1;
+        d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
+        if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
+          d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+        }
+      }
+    }
+    return d[a.size()][b.size()];
+  };
+  std::string best;
+  std::size_t best_d = 0;
+  for (const auto& c : candidates) {
+    const std::size_t d = distance(word, c);
+    if (best.empty() || d < best_d) {
+      best = c;
+      best_d = d;
+    }
+  }
+  // A typo: at most a third of the word changed (at least one edit allowed).
+  const std::size_t limit = std::max<std::size_t>(1, std::max(word.size(), best.size()) / 3);
+  return (!best.empty() && best_d <= limit) ? best : std::string();
+}
+
+std::string describe_json(const json& v) {
+  switch (v.type()) {
+    case json::value_t::null: return "null";
+    case json::value_t::boolean: return v.get<bool>() ? "true" : "false";
+    case json::value_t::object: return "an object";
+    case json::value_t::array: return "an array";
+    case json::value_t::string: {
+      std::string s = v.get<std::string>();
+      if (s.size() > 40) s = s.substr(0, 37) + "...";
+      return json(s).dump(-1, ' ', false, json::error_handler_t::replace);
+    }
+    case json::value_t::number_integer:
+    case json::value_t::number_unsigned:
+    case json::value_t::number_float: return number_text(v.get<double>());
+    default: return v.dump();
+  }
+}
+
+ObjectReader::ObjectReader(const json& value, std::string path, const std::string& source)
+    : value_(value), path_(std::move(path)), source_(source) {
+  if (!value_.is_object()) fail_at(source_, path_, "expected an object, got " + describe_json(value_));
+}
+
+void ObjectReader::fail(const std::string& key, const std::string& message) const {
+  fail_at(source_, path_of(key), message);
+}
+
+std::string ObjectReader::path_of(const std::string& key) const { return path_ + "." + key; }
+
+void ObjectReader::allow_only(const std::vector<std::string>& allowed) const {
+  for (const auto& item : value_.items()) {
+    if (std::find(allowed.begin(), allowed.end(), item.key()) != allowed.end()) continue;
+    std::string msg = "unknown key '" + item.key() + "'";
+    if (auto near = closest_name(item.key(), allowed); !near.empty()) {
+      msg += "; did you mean '" + near + "'?";
+    } else {
+      msg += "; expected one of:";
+      for (std::size_t i = 0; i < allowed.size(); ++i) msg += (i ? ", " : " ") + allowed[i];
+    }
+    fail(item.key(), msg);
+  }
+}
+
+bool ObjectReader::has(const std::string& key) const { return value_.contains(key); }
+
+const json* ObjectReader::optional(const std::string& key) const {
+  auto it = value_.find(key);
+  return it == value_.end() ? nullptr : &*it;
+}
+
+const json& ObjectReader::required(const std::string& key) const {
+  const json* v = optional(key);
+  if (v == nullptr) fail_at(source_, path_, "missing required field '" + key + "'");
+  return *v;
+}
+
+namespace {
+
+std::size_t code_points(const std::string& s) {
+  return static_cast<std::size_t>(std::count_if(
+      s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
+}
+
+}  // namespace
+
+std::string ObjectReader::string(const std::string& key, std::size_t max_chars,
+                                 bool allow_empty) const {
+  const json& v = required(key);
+  if (!v.is_string()) fail(key, "expected a string, got " + describe_json(v));
+  std::string s = v.get<std::string>();
+  if (!allow_empty && s.empty()) fail(key, "expected a non-empty string, got \"\"");
+  if (code_points(s) > max_chars) {
+    fail(key, "expected at most " + std::to_string(max_chars) + " characters, got " +
+                  std::to_string(code_points(s)));
+  }
+  // Labels end up on one line of a report; notes (long strings) may hold line breaks.
+  const bool multiline = max_chars > 200;
+  for (char c : s) {
+    const auto b = static_cast<unsigned char>(c);
+    if (b < 0x20 && !(multiline && (c == '\n' || c == '\t'))) {
+      fail(key, "expected printable text, got a control character (code " +
+                    std::to_string(static_cast<int>(b)) + ")");
+    }
+  }
+  return s;
+}
+
+std::optional<std::string> ObjectReader::optional_string(const std::string& key,
+                                                         std::size_t max_chars) const {
+  if (!has(key)) return std::nullopt;
+  return string(key, max_chars, true);
+}
+
+double ObjectReader::number(const std::string& key, double lo, double hi, bool lo_open,
+                            const std::string& what, const std::string& unit) const {
+  const json& v = required(key);
+  const std::string u = unit.empty() ? "" : " " + unit;
+  const std::string range = lo_open ? "greater than " + number_text(lo) + " and at most " +
+                                          number_text(hi) + u
+                                    : "between " + number_text(lo) + " and " + number_text(hi) + u;
+  if (!v.is_number()) fail(key, "expected " + what + " " + range + ", got " + describe_json(v));
+  const double d = v.get<double>();
+  if (!std::isfinite(d) || d > hi || d < lo || (lo_open && d == lo)) {
+    fail(key, "expected " + what + " " + range + ", got " + describe_json(v));
+  }
+  return d;
+}
+
+std::optional<double> ObjectReader::optional_number(const std::string& key, double lo, double hi,
+                                                    bool lo_open, const std::string& what,
+                                                    const std::string& unit) const {
+  if (!has(key)) return std::nullopt;
+  return number(key, lo, hi, lo_open, what, unit);
+}
+
+std::optional<long long> ObjectReader::optional_integer(const std::string& key,
+                                                        long long lo) const {
+  const json* v = optional(key);
+  if (v == nullptr) return std::nullopt;
+  if (!v->is_number_integer() || (v->is_number_unsigned() && v->get<unsigned long long>() >
+                                                                 9007199254740992ULL)) {
+    fail(key, "expected a whole number >= " + std::to_string(lo) + ", got " + describe_json(*v));
+  }
+  const auto n = v->get<long long>();
+  if (n < lo) fail(key, "expected a whole number >= " + std::to_string(lo) + ", got " +
+                            std::to_string(n));
+  return n;
+}
+
+std::optional<bool> ObjectReader::optional_bool(const std::string& key) const {
+  const json* v = optional(key);
+  if (v == nullptr) return std::nullopt;
+  if (!v->is_boolean()) fail(key, "expected true or false, got " + describe_json(*v));
+  return v->get<bool>();
+}
+
+}  // namespace sp::format

@@ -1,0 +1,43 @@
+// Issuing a signed weigh-report: record -> record signature -> PDF -> detached PDF signature.
+//
+//   record_text   = canonical_json(build_record(session_to_json, result_to_json, meta))
+//   record_sig    = Ed25519(record_text)            embedded as weigh-record.sig
+//   pdf           = render_report_pdf(..., record_text, record_sig)
+//   pdf_sig       = Ed25519(pdf bytes)              written beside it as report.pdf.sig
+// Deterministic: Ed25519 signatures are deterministic (RFC 8032 §5.1.6), so the same session,
+// options and key give byte-identical outputs. Pure apart from reading the font files.
+#pragma once
+#include <nlohmann/json.hpp>
+#include <optional>
+#include <string>
+
+#include "core/model.h"
+#include "engine/result.h"
+#include "report/signer.h"
+
+namespace sp::report {
+
+struct IssueOptions {
+  std::optional<std::string> issued_at;  // ISO 8601; no clock otherwise
+  std::optional<std::string> signed_by;
+  std::string paper = "a4";
+  std::string software;                  // "scaleproof X.Y.Z"
+  std::string font_dir = "/usr/share/fonts/truetype/dejavu";
+};
+
+struct IssuedReport {
+  std::string id;
+  std::string record_text;
+  std::string record_signature;  // 64 bytes
+  std::string pdf;
+  std::string pdf_signature;     // 64 bytes
+  std::string fingerprint;
+};
+
+// `session_json` and `result_json` are the format/result_json.h objects of `session` and
+// `result`; the caller passes both so this stays independent of how they were produced.
+IssuedReport issue_report(const Session& session, const ReconcileResult& result,
+                          const nlohmann::json& session_json, const nlohmann::json& result_json,
+                          const Signer& signer, const IssueOptions& options);
+
+}  // namespace sp::report

@@ -1,0 +1,110 @@
+#include "report/key_files.h"
+
+#include <fcntl.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <cerrno>
+#include <cstring>
+#include <fstream>
+#include <sstream>
+
+#include "core/error.h"
+#include "report/signer.h"
+
+namespace sp::report {
+namespace {
+
+std::string errno_text() { return std::strerror(errno); }
+
+// Writes all of `bytes` to a new file (O_EXCL) with `mode`; throws cant_create / io_error.
+void write_new_file(const std::string& path, const std::string& bytes, mode_t mode) {
+  int fd = ::open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, mode);
+  if (fd < 0) {
+    if (errno == EEXIST) {
+      throw Error(ExitCode::cant_create, path + ": already exists; refusing to overwrite it");
+    }
+    throw Error(ExitCode::cant_create, path + ": cannot create: " + errno_text());
+  }
+  std::size_t done = 0;
+  while (done < bytes.size()) {
+    ssize_t n = ::write(fd, bytes.data() + done, bytes.size() - done);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      std::string why = errno_text();
+      ::close(fd);
+      ::unlink(path.c_str());
+      throw Error(ExitCode::io_error, path + ": write failed: " + why);
+    }
+    done += static_cast<std::size_t>(n);
+  }
+  if (::fsync(fd) != 0 || ::close(fd) != 0) {
+    std::string why = errno_text();
+    ::unlink(path.c_str());
+    throw Error(ExitCode::io_error, path + ": write failed: " + why);
+  }
+}
+
+}  // namespace
+
+KeyFiles key_file_names(const std::string& name) {
+  std::string base = name;
+  if (base.size() > 4 && base.compare(base.size() - 4, 4, ".key") == 0) {
+    base.resize(base.size() - 4);
+  }
+  if (base.empty()) throw usage_error("key name: expected a non-empty NAME");
+  return {base + ".key", base + ".pub.pem", ""};
+}
+
+KeyFiles create_key_files(const std::string& name) {
+  KeyFiles files = key_file_names(name);
+  struct stat st {};
+  for (const std::string* p : {&files.private_path, &files.public_path}) {
+    if (::lstat(p->c_str(), &st) == 0) {
+      throw Error(ExitCode::cant_create, *p + ": already exists; refusing to overwrite it");
+    }
+  }
+  KeyPairPem pair = generate_key_pair();
+  // 0600: only the owner may read the private key (it signs reports in the station's name).
+  write_new_file(files.private_path, pair.private_pem, 0600);
+  try {
+    write_new_file(files.public_path, pair.public_pem, 0644);
+  } catch (...) {
+    ::unlink(files.private_path.c_str());
+    throw;
+  }
+  files.fingerprint = fingerprint(verifier_from_pem(pair.public_pem, files.public_path)->public_key());
+  return files;
+}
+
+std::string read_file_bytes(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) {
+    if (errno == ENOENT) throw Error(ExitCode::no_input, path + ": no such file");
+    throw Error(ExitCode::io_error, path + ": cannot open: " + errno_text());
+  }
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  if (in.bad()) throw Error(ExitCode::io_error, path + ": read failed");
+  return ss.str();
+}
+
+void write_file_atomic(const std::string& path, const std::string& bytes, bool exclusive) {
+  struct stat st {};
+  if (exclusive && ::lstat(path.c_str(), &st) == 0) {
+    throw Error(ExitCode::cant_create, path + ": already exists; refusing to overwrite it");
+  }
+  std::string tmp = path + ".tmp-" + std::to_string(::getpid());
+  ::unlink(tmp.c_str());
+  write_new_file(tmp, bytes, 0644);
+  // link() fails when the target exists, which keeps `exclusive` race-free; rename() replaces.
+  int rc = exclusive ? ::link(tmp.c_str(), path.c_str()) : ::rename(tmp.c_str(), path.c_str());
+  int saved = errno;
+  if (exclusive || rc != 0) ::unlink(tmp.c_str());
+  if (rc != 0) {
+    errno = saved;
+    throw Error(ExitCode::cant_create, path + ": cannot create: " + errno_text());
+  }
+}
+
+}  // namespace sp::report

@@ -1,0 +1,27 @@
+// Station key files on disk: NAME.key (private, PEM PKCS#8, mode 0600) and NAME.pub.pem.
+//
+// create_key_files refuses to overwrite: it creates both files with O_CREAT|O_EXCL and throws
+// sp::Error(cant_create) naming the file if either exists or cannot be made; on any failure it
+// removes what it created, so no half pair is left behind. Private keys never go into the store.
+#pragma once
+#include <string>
+
+namespace sp::report {
+
+struct KeyFiles {
+  std::string private_path;  // NAME.key
+  std::string public_path;   // NAME.pub.pem
+  std::string fingerprint;   // see signer.h
+};
+
+// NAME may carry a folder ("keys/station-3"); a trailing ".key" is dropped.
+KeyFiles key_file_names(const std::string& name);
+KeyFiles create_key_files(const std::string& name);
+
+// Whole-file reads for keys, records and reports; throws no_input / io_error naming the path.
+std::string read_file_bytes(const std::string& path);
+// Writes `bytes` to `path` atomically: a temp file beside it, fsync, rename. When `exclusive`,
+// refuses (cant_create) if `path` exists. Nothing is left behind on failure.
+void write_file_atomic(const std::string& path, const std::string& bytes, bool exclusive);
+
+}  // namespace sp::report

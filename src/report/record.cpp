@@ -1,0 +1,122 @@
+#include "report/record.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/error.h"
+#include "report/signer.h"
+
+namespace sp::report {
+namespace {
+
+// Normalises numbers so the text is canonical: integral doubles become integers, -0 becomes 0.
+nlohmann::json normalised(const nlohmann::json& v, const std::string& path) {
+  switch (v.type()) {
+    case nlohmann::json::value_t::object: {
+      nlohmann::json out = nlohmann::json::object();  // std::map: keys sorted by bytes
+      for (auto it = v.begin(); it != v.end(); ++it) out[it.key()] = normalised(*it, path + "." + it.key());
+      return out;
+    }
+    case nlohmann::json::value_t::array: {
+      nlohmann::json out = nlohmann::json::array();
+      for (std::size_t i = 0; i < v.size(); ++i) {
+        out.push_back(normalised(v[i], path + "[" + std::to_string(i) + "]"));
+      }
+      return out;
+    }
+    case nlohmann::json::value_t::number_float: {
+      double d = v.get<double>();
+      if (!std::isfinite(d)) throw data_error("weigh record: " + path + ": expected a finite number");
+      // 2^53: beyond it not every integer is a double, so keep the float form.
+      if (d == std::floor(d) && std::fabs(d) < 9007199254740992.0) {
+        return static_cast<std::int64_t>(d);
+      }
+      return d;
+    }
+    default:
+      return v;
+  }
+}
+
+bool numbers_agree(double a, double b) {
+  double scale = std::max({1.0, std::fabs(a), std::fabs(b)});
+  return std::fabs(a - b) <= kRecomputeTolerance * scale;
+}
+
+void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string& path,
+             std::vector<std::string>& out, std::size_t max_lines) {
+  if (out.size() >= max_lines) return;
+  if (a.is_number() && b.is_number()) {
+    if (!numbers_agree(a.get<double>(), b.get<double>())) {
+      out.push_back(path + ": record " + a.dump() + ", recomputed " + b.dump());
+    }
+    return;
+  }
+  if (a.type() != b.type()) {
+    out.push_back(path + ": record " + a.dump() + ", recomputed " + b.dump());
+    return;
+  }
+  if (a.is_object()) {
+    for (auto it = a.begin(); it != a.end(); ++it) {
+      if (!b.contains(it.key())) {
+        out.push_back(path + "." + it.key() + ": in the record, not recomputed");
+      } else {
+        compare(*it, b.at(it.key()), path + "." + it.key(), out, max_lines);
+      }
+    }
+    for (auto it = b.begin(); it != b.end(); ++it) {
+      if (!a.contains(it.key())) out.push_back(path + "." + it.key() + ": recomputed, missing from the record");
+    }
+  } else if (a.is_array()) {
+    if (a.size() != b.size()) {
+      out.push_back(path + ": record has " + std::to_string(a.size()) + " entries, recomputed " +
+                    std::to_string(b.size()));
+      return;
+    }
+    for (std::size_t i = 0; i < a.size(); ++i) {
+      compare(a[i], b[i], path + "[" + std::to_string(i) + "]", out, max_lines);
+    }
+  } else if (a != b) {
+    out.push_back(path + ": record " + a.dump() + ", recomputed " + b.dump());
+  }
+}
+
+}  // namespace
+
+std::string canonical_json(const nlohmann::json& value) {
+  // dump(): no indent, no spaces; ensure_ascii false; strict UTF-8 (throws on invalid).
+  try {
+    return normalised(value, "$").dump(-1, ' ', false, nlohmann::json::error_handler_t::strict);
+  } catch (const nlohmann::json::exception& e) {
+    throw data_error(std::string("weigh record: ") + e.what());
+  }
+}
+
+std::string report_id(const nlohmann::json& record_without_id) {
+  return "SP-" + to_hex(sha256(canonical_json(record_without_id))).substr(0, 12);
+}
+
+nlohmann::json build_record(const nlohmann::json& session, const nlohmann::json& results,
+                            const RecordMeta& meta) {
+  nlohmann::json report = {
+      {"issued_at", meta.issued_at ? nlohmann::json(*meta.issued_at) : nlohmann::json(nullptr)},
+      {"signed_by", meta.signed_by ? nlohmann::json(*meta.signed_by) : nlohmann::json(nullptr)},
+      {"paper", meta.paper},
+      {"software", meta.software},
+      {"public_key", to_hex(meta.public_key)},
+      {"key_fingerprint", fingerprint(meta.public_key)},
+  };
+  nlohmann::json record = {
+      {"format", kRecordFormat}, {"report", report}, {"session", session}, {"results", results}};
+  record["report"]["id"] = report_id(record);
+  return record;
+}
+
+std::vector<std::string> compare_results(const nlohmann::json& stated,
+                                         const nlohmann::json& recomputed, std::size_t max_lines) {
+  std::vector<std::string> out;
+  compare(normalised(stated, "$"), normalised(recomputed, "$"), "$", out, max_lines);
+  return out;
+}
+
+}  // namespace sp::report

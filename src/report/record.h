@@ -1,0 +1,59 @@
+// The weigh record: the signed, machine-readable heart of a weigh-report.
+//
+// A record is one JSON object:
+//   {
+//     "format":  "scaleproof-record/1",
+//     "report":  {"id", "issued_at" (ISO 8601 or null), "signed_by" (or null), "paper",
+//                 "software", "public_key" (raw Ed25519, hex), "key_fingerprint"},
+//     "session": the session's inputs, exactly the session-file object (format/session_json.h),
+//     "results": the engine's results, exactly the `reconcile --json` object (format/result_json.h)
+//   }
+// Canonical form (what is signed; see reports/VERIFY.md):
+//   - UTF-8, no byte-order mark, no whitespace outside strings, no trailing newline;
+//   - object keys sorted by their UTF-8 bytes, at every level; array order kept;
+//   - strings escaped as JSON requires and nothing more (non-ASCII is written as is);
+//   - integers (values with no fraction that fit in 64 bits) without a decimal point;
+//     other numbers in the shortest form that reads back to the same IEEE-754 double
+//     (nlohmann_json's dtoa, e.g. 0.1, 1.5e-07); -0 is written 0; NaN/inf are refused.
+// The report id is "SP-" + the first 12 hex digits of SHA-256 over the canonical record
+// without report.id, so the same weighing, signer, key, paper and issue time always get the
+// same id, and any other change gets another.
+#pragma once
+#include <nlohmann/json.hpp>
+#include <optional>
+#include <string>
+
+namespace sp::report {
+
+inline constexpr const char* kRecordFormat = "scaleproof-record/1";
+
+struct RecordMeta {
+  std::optional<std::string> issued_at;  // as given with --issued-at; no clock otherwise
+  std::optional<std::string> signed_by;
+  std::string paper = "a4";
+  std::string software;                  // "scaleproof 0.1.0"
+  std::string public_key;                // raw 32 bytes
+};
+
+// Canonical text of any JSON value (rules above). Throws data_error on NaN/inf.
+std::string canonical_json(const nlohmann::json& value);
+
+// "SP-" + 12 hex digits; see above.
+std::string report_id(const nlohmann::json& record_without_id);
+
+// Assembles the record object. `session` and `results` are the JSON objects of
+// format/result_json.h (ordered or not; the canonical form sorts them).
+nlohmann::json build_record(const nlohmann::json& session, const nlohmann::json& results,
+                            const RecordMeta& meta);
+
+// Compares the results stated in a record with recomputed ones. Numbers agree when
+// |a - b| <= kRecomputeTolerance * max(1, |a|, |b|): recomputation may run on another machine
+// or build, where the last bits of a least-squares solution can differ (common practice for
+// comparing floating-point results). Everything else must be equal. Returns one line per
+// difference, as "$.tongue_load.value: record 812.5, recomputed 790.1"; empty when all agree.
+inline constexpr double kRecomputeTolerance = 1e-6;
+std::vector<std::string> compare_results(const nlohmann::json& stated,
+                                         const nlohmann::json& recomputed,
+                                         std::size_t max_lines = 20);
+
+}  // namespace sp::report

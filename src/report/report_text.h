@@ -1,0 +1,34 @@
+// The report's wording, cautions and layout data (reports/*.json, compiled into the binary),
+// plus the number formatting every page uses.
+//
+// Lookups use JSON-pointer-like dotted keys ("sections.results"); a missing key is a bug in
+// reports/ and throws sp::Error(internal) naming it.
+#pragma once
+#include <nlohmann/json.hpp>
+#include <string>
+#include <vector>
+
+namespace sp::report {
+
+struct ReportText {
+  nlohmann::json wording;  // reports/wording.json
+  nlohmann::json cautions; // reports/cautions.json
+  nlohmann::json layout;   // reports/layout.json
+
+  std::string get(const std::string& dotted) const;            // a string value
+  std::vector<std::string> list(const std::string& dotted) const;  // an array of strings
+  double number(const std::string& dotted) const;              // from layout
+};
+
+// Loads the embedded reports/*.json (parsed once per call; cheap).
+ReportText load_report_text();
+
+// Replaces "{name}" in `pattern` by the values given (pairs of name, value).
+std::string fill(std::string pattern, const std::vector<std::pair<std::string, std::string>>& values);
+
+// Fixed-point with `decimals` places, "−" for negatives (U+2212), thin grouping of thousands.
+std::string fmt_number(double v, int decimals);
+// Expanded uncertainty 2u (k = 2, JCGM 100:2008 §6.3) with the same decimals.
+std::string fmt_expanded(double u, int decimals);
+
+}  // namespace sp::report

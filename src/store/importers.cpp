@@ -1,0 +1,185 @@
+#include "store/importers.h"
+
+#include <fmt/format.h>
+
+#include <map>
+
+#include "core/error.h"
+#include "format/pass_csv.h"
+
+namespace sp::store {
+
+ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& source,
+                            const std::optional<std::string>& by,
+                            const std::function<void(std::uint64_t)>& progress) {
+  PassCsvReader reader(in, source);
+  ImportStats stats;
+  CsvPassRow row;
+  std::string last_ref;
+  long long session_id = 0;
+  std::map<std::string, long long> scale_ids;  // scale code -> id (a station has few)
+  while (reader.next(row)) {
+    try {
+      if (session_id == 0 || row.session != last_ref) {
+        auto found = store.find_session_by_ref(row.session);
+        if (found) {
+          session_id = *found;
+          if (row.scale) {
+            Session s = store.load_session(session_id);
+            if (s.scale.id != *row.scale) {
+              throw data_error(fmt::format("scale: session {} is on scale {}, the row says {}",
+                                           row.session, s.scale.id, *row.scale));
+            }
+          }
+          ++stats.sessions_joined;
+        } else {
+          if (!row.scale) throw data_error("scale: expected the scale id to open session " + row.session);
+          if (!row.rig) throw data_error("rig: expected the rig name to open session " + row.session);
+          auto it = scale_ids.find(*row.scale);
+          if (it == scale_ids.end()) {
+            auto sc = store.find_scale(*row.scale);
+            if (!sc) {
+              throw Error(ExitCode::data_error,
+                          "scale: " + *row.scale + " is not in the store (add it with `scaleproof scale add`)");
+            }
+            it = scale_ids.emplace(*row.scale, sc->id).first;
+          }
+          auto rig = store.find_rig(*row.rig);
+          if (!rig) {
+            throw data_error("rig: " + *row.rig + " is not in the store (add it with `scaleproof rig add`)");
+          }
+          NewSession ns;
+          ns.ref = row.session;
+          ns.rig_id = rig->id;
+          ns.scale_id = it->second;
+          ns.operator_name = row.operator_name;
+          ns.opened_by = by;
+          session_id = store.open_session(ns);
+          ++stats.sessions_opened;
+        }
+        last_ref = row.session;
+      }
+      if (!row.pass.entered_by) row.pass.entered_by = by;
+      long long pass_id = store.add_pass(session_id, row.pass);
+      ++stats.passes;
+      if (row.void_reason) {
+        store.void_pass(pass_id, *row.void_reason, row.pass.entered_by, "");
+        ++stats.voided;
+      }
+    } catch (const Error& e) {
+      if (e.code() == ExitCode::no_input) {
+        throw Error(ExitCode::data_error, fmt::format("{}:{}: {}", source, row.line, e.what()));
+      }
+      throw e.within(fmt::format("{}:{}", source, row.line));
+    }
+    if (progress && (stats.passes & 0xfff) == 0) progress(reader.bytes_read());
+  }
+  if (progress) progress(reader.bytes_read());
+  if (stats.passes == 0) throw data_error(source + ": no passes (only a header)");
+  return stats;
+}
+
+namespace {
+
+bool same(const std::optional<double>& a, const std::optional<double>& b) { return a == b; }
+
+bool same_rig(const RigRecord& r, const Session& s) {
+  const TowVehicle& a = r.vehicle;
+  const TowVehicle& b = s.tow_vehicle;
+  return r.units.weight == s.units.weight && r.units.length == s.units.length &&
+         a.label == b.label && a.wheelbase == b.wheelbase &&
+         a.rear_axle_to_ball == b.rear_axle_to_ball && same(a.gvwr, b.gvwr) &&
+         same(a.front_gawr, b.front_gawr) && same(a.rear_gawr, b.rear_gawr) &&
+         same(a.gcwr, b.gcwr) && same(a.hitch_tongue_rating, b.hitch_tongue_rating) &&
+         same(a.hitch_trailer_rating, b.hitch_trailer_rating) &&
+         same(a.falr_target, b.falr_target) && r.trailer.label == s.trailer.label &&
+         r.trailer.type == s.trailer.type && r.trailer.ball_to_axle == s.trailer.ball_to_axle &&
+         same(r.trailer.gvwr, s.trailer.gvwr) && same(r.trailer.axle_gawr, s.trailer.axle_gawr);
+}
+
+template <class T>
+void must_match(const std::string& scale, const char* field, const T& stored, const T& given) {
+  if (!(stored == given)) {
+    throw data_error(fmt::format("scale {}: {} differs from the scale of that id already in the "
+                                 "store; give the scale another id or fix the file",
+                                 scale, field));
+  }
+}
+
+long long scale_for(Store& store, const Session& s, const std::optional<std::string>& by) {
+  auto sc = store.find_scale(s.scale.id);
+  if (!sc) return store.add_scale(s.scale, s.units.weight, by, "");
+  const ScaleInfo& a = sc->info;
+  const ScaleInfo& b = s.scale;
+  must_match(b.id, "unit", sc->unit, s.units.weight);
+  must_match(b.id, "division", a.division, b.division);
+  must_match(b.id, "accuracy_class", a.accuracy_class, b.accuracy_class);
+  must_match(b.id, "capacity", a.capacity, b.capacity);
+  must_match(b.id, "reading_uncertainty", a.reading_uncertainty, b.reading_uncertainty);
+  if (b.name) must_match(b.id, "name", a.name, b.name);
+  if (b.location) must_match(b.id, "location", a.location, b.location);
+  if (b.last_inspected) {
+    bool known = false;
+    for (const auto& i : store.inspections(sc->id)) known = known || i.inspected_on == *b.last_inspected;
+    if (!known) {
+      Inspection i;
+      i.scale_id = sc->id;
+      i.inspected_on = *b.last_inspected;
+      i.notes = "date taken from an imported session file";
+      i.entered_by = by;
+      store.add_inspection(i);
+    }
+  }
+  return sc->id;
+}
+
+long long rig_for(Store& store, const Session& s, const std::optional<std::string>& by) {
+  for (const auto& r : store.list_rigs()) {
+    if (same_rig(r, s)) return r.id;
+  }
+  RigRecord r;
+  std::string base = s.tow_vehicle.label + " + " + s.trailer.label;
+  r.name = base;
+  for (int k = 2; store.find_rig(r.name); ++k) r.name = fmt::format("{} ({})", base, k);
+  r.units = s.units;
+  r.vehicle = s.tow_vehicle;
+  r.trailer = s.trailer;
+  r.entered_by = by;
+  return store.add_rig(r);
+}
+
+}  // namespace
+
+long long import_session(Store& store, const Session& session, const std::string& source,
+                         const std::optional<std::string>& by) {
+  try {
+    NewSession ns;
+    ns.scale_id = scale_for(store, session, by);
+    ns.rig_id = rig_for(store, session, by);
+    ns.station = session.station;
+    ns.operator_name = session.operator_name;
+    ns.owner = session.owner;
+    ns.notes = session.notes;
+    ns.length_uncertainty = session.length_uncertainty;
+    ns.opened_by = by;
+    long long id = store.open_session(ns);
+    for (size_t i = 0; i < session.passes.size(); ++i) {
+      Pass p = session.passes[i];
+      try {
+        if (!p.entered_by) p.entered_by = by;
+        long long pid = store.add_pass(id, p);
+        if (p.voided) {
+          store.void_pass(pid, p.void_reason.value_or("voided in the imported session file"),
+                          p.entered_by, "");
+        }
+      } catch (const Error& e) {
+        throw e.within(fmt::format("$.passes[{}]", i));
+      }
+    }
+    return id;
+  } catch (const Error& e) {
+    throw e.within(source);
+  }
+}
+
+}  // namespace sp::store

@@ -1,0 +1,405 @@
+#include "store/sqlite_store.h"
+
+#include <cmath>
+#include <cstring>
+#include <ctime>
+#include <fmt/format.h>
+
+#include "core/embedded.h"
+#include "format/iso8601.h"
+
+namespace sp::store {
+
+std::string now_utc() {
+  std::time_t t = std::time(nullptr);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  char buf[32];
+  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+  return buf;
+}
+
+std::unique_ptr<Store> open_sqlite_store(const std::string& path, const Options& options) {
+  return std::make_unique<SqliteStore>(path, options);
+}
+
+// ---- RowBuilder -------------------------------------------------------------------------
+
+RowBuilder::RowBuilder(SqliteStore& s, const char* table) : s_(s) {
+  s_.require_write(table);
+  w_ = &s_.writer(table);
+  seq_ = s_.next_seq_;
+  if (w_->desc->id_is_seq) {
+    id_ = seq_;
+  } else {
+    if (w_->next_id == 0) {
+      Stmt& q = s_.stmt(fmt::format("SELECT coalesce(max(id), 0) + 1 FROM {}", table));
+      q.step("reading the next id");
+      w_->next_id = q.i64(0);
+      q.reset();
+    }
+    id_ = w_->next_id;
+  }
+  w_->insert->bind(1, id_);
+  if (!w_->desc->id_is_seq) w_->insert->bind(2, seq_);
+  param_ = w_->first_col_param;
+  s_.enc_.start(*w_->desc, seq_, id_);
+}
+
+void RowBuilder::expect(ColType type) {
+  if (col_ >= w_->desc->columns.size() || w_->desc->columns[col_].type != type) {
+    throw Error(ExitCode::internal, fmt::format("{}: column {} bound with the wrong type",
+                                                w_->desc->name, col_));
+  }
+  ++col_;
+}
+
+RowBuilder& RowBuilder::i(long long v) {
+  expect(ColType::integer);
+  w_->insert->bind(param_++, v);
+  s_.enc_.add_int(v);
+  return *this;
+}
+RowBuilder& RowBuilder::i(const std::optional<long long>& v) {
+  if (v) return i(*v);
+  expect(ColType::integer);
+  w_->insert->bind_null(param_++);
+  s_.enc_.add_null();
+  return *this;
+}
+RowBuilder& RowBuilder::r(double v) {
+  expect(ColType::real);
+  if (!std::isfinite(v)) {
+    throw data_error(fmt::format("{}: expected a finite number, got {}",
+                                 w_->desc->columns[col_ - 1].name, v));
+  }
+  w_->insert->bind(param_++, v);
+  s_.enc_.add_real(v);
+  return *this;
+}
+RowBuilder& RowBuilder::r(const std::optional<double>& v) {
+  if (v) return r(*v);
+  expect(ColType::real);
+  w_->insert->bind_null(param_++);
+  s_.enc_.add_null();
+  return *this;
+}
+RowBuilder& RowBuilder::t(std::string_view v) {
+  expect(ColType::text);
+  w_->insert->bind(param_++, v);
+  s_.enc_.add_text(v);
+  return *this;
+}
+RowBuilder& RowBuilder::t(const std::optional<std::string>& v) {
+  if (v) return t(std::string_view(*v));
+  expect(ColType::text);
+  w_->insert->bind_null(param_++);
+  s_.enc_.add_null();
+  return *this;
+}
+
+long long RowBuilder::append(std::string_view what) {
+  if (col_ != w_->desc->columns.size()) {
+    throw Error(ExitCode::internal, fmt::format("{}: {} of {} columns bound", w_->desc->name,
+                                                col_, w_->desc->columns.size()));
+  }
+  Hash h = s_.sha_.digest(s_.head_, s_.enc_.data());
+  w_->insert->bind_blob(w_->hash_param, h.data(), static_cast<int>(h.size()));
+  try {
+    w_->insert->run(what);
+  } catch (...) {
+    w_->insert->reset();
+    throw;
+  }
+  s_.head_ = h;
+  s_.next_seq_ = seq_ + 1;
+  if (!w_->desc->id_is_seq) w_->next_id = id_ + 1;
+  return id_;
+}
+
+// ---- open, migrations, transactions ------------------------------------------------------
+
+SqliteStore::SqliteStore(const std::string& path, const Options& options)
+    : db_(path, options.create, options.busy_timeout_ms) {
+  migrate(options.create);
+}
+
+int SqliteStore::schema_version() {
+  Stmt q(db_, "PRAGMA user_version");
+  q.step("reading the schema version");
+  return static_cast<int>(q.i64(0));
+}
+
+void SqliteStore::migrate(bool create) {
+  const auto& files = embedded::schema_files();
+  int latest = 0;
+  for (const auto& f : files) latest = std::max(latest, std::atoi(std::string(f.name).c_str()));
+  int version = schema_version();
+  if (version > latest) {
+    throw data_error(fmt::format("{}: store schema version {} is newer than this scaleproof "
+                                 "knows ({}); use a newer scaleproof",
+                                 db_.path(), version, latest));
+  }
+  if (version == 0) {
+    Stmt q(db_, "SELECT count(*) FROM sqlite_schema");
+    q.step("reading the schema");
+    bool empty = q.i64(0) == 0;
+    if (!empty) {
+      throw data_error(db_.path() + ": not a scaleproof store (it has tables but no schema "
+                                    "version)");
+    }
+    if (!create) {
+      throw Error(ExitCode::no_input,
+                  db_.path() + ": the store is not initialised; run `scaleproof init` first");
+    }
+  }
+  if (version == latest) return;
+  // WAL lets readers run while one operator writes; it persists in the file (SQLite docs,
+  // "Write-Ahead Logging"). synchronous stays FULL (the default): a committed pass must
+  // survive a power cut, at the cost of one fsync per command.
+  if (db_.path() != ":memory:") db_.exec("PRAGMA journal_mode = WAL", "switching to WAL");
+  db_.exec("BEGIN IMMEDIATE", "starting the migration");
+  try {
+    // Re-read under the lock: another process may have migrated meanwhile.
+    version = schema_version();
+    for (const auto& f : files) {
+      int n = std::atoi(std::string(f.name).c_str());
+      if (n <= version) continue;
+      db_.exec(std::string(f.contents), "applying migration " + std::string(f.name));
+      db_.exec(fmt::format("PRAGMA user_version = {}", n), "recording the schema version");
+    }
+    db_.exec("COMMIT", "committing the migration");
+  } catch (...) {
+    sqlite3_exec(db_.handle(), "ROLLBACK", nullptr, nullptr, nullptr);
+    throw;
+  }
+}
+
+void SqliteStore::clear_caches() {
+  for (auto& [name, w] : writers_) w.next_id = 0;
+  scale_cache_.clear();
+  rig_cache_.clear();
+  session_ctx_ = SessionCtx{};
+}
+
+void SqliteStore::begin_write() {
+  db_.exec("BEGIN IMMEDIATE", "starting a write");
+  in_txn_ = in_write_ = true;
+  clear_caches();
+  now_ = now_utc();
+  load_head();
+}
+
+void SqliteStore::begin_read() {
+  db_.exec("BEGIN", "starting a read");
+  in_txn_ = true;
+  in_write_ = false;
+  clear_caches();
+}
+
+void SqliteStore::commit() {
+  db_.exec("COMMIT", "committing");
+  in_txn_ = in_write_ = false;
+}
+
+void SqliteStore::rollback() noexcept {
+  if (in_txn_) sqlite3_exec(db_.handle(), "ROLLBACK", nullptr, nullptr, nullptr);
+  in_txn_ = in_write_ = false;
+  clear_caches();
+}
+
+void SqliteStore::require_write(std::string_view what) const {
+  if (!in_write_) {
+    throw Error(ExitCode::internal, fmt::format("{}: write outside a write transaction", what));
+  }
+}
+
+void SqliteStore::load_head() {
+  next_seq_ = 1;
+  head_ = Hash{};
+  for (const auto& t : chained_tables()) {
+    const char* seq = t.id_is_seq ? "id" : "seq";
+    Stmt& q = stmt(fmt::format("SELECT {0}, hash FROM {1} ORDER BY {0} DESC LIMIT 1", seq, t.name));
+    if (q.step("reading the chain head") && q.i64(0) >= next_seq_) {
+      next_seq_ = q.i64(0) + 1;
+      const void* p = sqlite3_column_blob(q.handle(), 1);
+      if (p != nullptr && sqlite3_column_bytes(q.handle(), 1) == 32) {
+        std::memcpy(head_.data(), p, 32);
+      }
+    }
+    q.reset();
+  }
+}
+
+std::string SqliteStore::head_hash() {
+  if (!in_write_) load_head();
+  return next_seq_ == 1 ? std::string() : to_hex(head_);
+}
+
+long long SqliteStore::row_count() {
+  long long n = 0;
+  for (const auto& t : chained_tables()) {
+    Stmt& q = stmt(fmt::format("SELECT count(*) FROM {}", t.name));
+    q.step("counting rows");
+    n += q.i64(0);
+    q.reset();
+  }
+  return n;
+}
+
+Writer& SqliteStore::writer(const char* table) {
+  auto it = writers_.find(table);
+  if (it != writers_.end()) return it->second;
+  Writer w;
+  w.desc = &table_desc(table);
+  std::string cols = w.desc->id_is_seq ? "id, hash" : "id, seq, hash";
+  int n = w.desc->id_is_seq ? 2 : 3;
+  w.hash_param = n;
+  w.first_col_param = n + 1;
+  for (const auto& c : w.desc->columns) {
+    cols += ", ";
+    cols += c.name;
+    ++n;
+  }
+  std::string params = "?";
+  for (int k = 1; k < n; ++k) params += ", ?";
+  w.insert = std::make_unique<Stmt>(
+      db_, fmt::format("INSERT INTO {} ({}) VALUES ({})", table, cols, params));
+  return writers_.emplace(table, std::move(w)).first->second;
+}
+
+Stmt& SqliteStore::stmt(const std::string& sql) {
+  auto it = stmts_.find(sql);
+  if (it != stmts_.end()) return *it->second;
+  return *stmts_.emplace(sql, std::make_unique<Stmt>(db_, sql)).first->second;
+}
+
+// ---- scales ------------------------------------------------------------------------------
+
+namespace {
+constexpr const char* kScaleCols =
+    "s.id, s.code, s.name, s.location, s.unit, s.division, s.accuracy_class, s.capacity, "
+    "s.reading_uncertainty, s.entered_by, s.entered_at, "
+    "(SELECT max(inspected_on) FROM scale_inspections i WHERE i.scale_id = s.id)";
+
+ScaleRecord read_scale(const Stmt& q) {
+  ScaleRecord r;
+  r.id = q.i64(0);
+  r.info.id = q.text(1);
+  r.info.name = q.opt_text(2);
+  r.info.location = q.opt_text(3);
+  r.unit = parse_weight_unit(q.text_view(4)).value_or(WeightUnit::lb);
+  r.info.division = q.f64(5);
+  r.info.accuracy_class = q.text(6);
+  r.info.capacity = q.opt_f64(7);
+  r.info.reading_uncertainty = q.opt_f64(8);
+  r.entered_by = q.opt_text(9);
+  r.entered_at = q.text(10);
+  r.info.last_inspected = q.opt_text(11);
+  return r;
+}
+
+void check_positive(const char* field, const std::optional<double>& v) {
+  if (v && !(std::isfinite(*v) && *v > 0)) {
+    throw data_error(fmt::format("{}: expected a number > 0, got {}", field, *v));
+  }
+}
+}  // namespace
+
+long long SqliteStore::add_scale(const ScaleInfo& info, WeightUnit unit,
+                                 const std::optional<std::string>& by, const std::string& at) {
+  if (info.id.empty()) throw data_error("scale id: expected a name such as ST-3, got nothing");
+  try {
+    check_positive("division", info.division);
+    check_positive("capacity", info.capacity);
+    check_positive("reading_uncertainty", info.reading_uncertainty);
+    if (find_scale(info.id)) throw data_error("a scale with this id is already in the store");
+  } catch (const Error& e) {
+    throw e.within("scale " + info.id);
+  }
+  long long id = RowBuilder(*this, "scales")
+                     .t(info.id).t(info.name).t(info.location).t(to_string(unit))
+                     .r(info.division).t(info.accuracy_class).r(info.capacity)
+                     .r(info.reading_uncertainty).t(by).t(when(at))
+                     .append("adding scale " + info.id);
+  if (info.last_inspected) {
+    Inspection i;
+    i.scale_id = id;
+    i.inspected_on = *info.last_inspected;
+    i.entered_by = by;
+    i.entered_at = at;
+    add_inspection(i);
+  }
+  return id;
+}
+
+long long SqliteStore::add_inspection(const Inspection& in) {
+  auto scale = scale_by_id(in.scale_id);
+  if (!scale) throw Error(ExitCode::no_input, fmt::format("scale id {}: not in the store", in.scale_id));
+  if (auto why = format::check_iso_date(in.inspected_on); !why.empty()) {
+    throw data_error(fmt::format("scale {}: inspection date: expected YYYY-MM-DD, got '{}' ({})",
+                                 scale->info.id, in.inspected_on, why));
+  }
+  long long id = RowBuilder(*this, "scale_inspections")
+                     .i(in.scale_id).t(in.inspected_on).t(in.seal).t(in.inspector).t(in.notes)
+                     .t(in.entered_by).t(when(in.entered_at))
+                     .append("recording an inspection of scale " + scale->info.id);
+  scale_cache_.erase(in.scale_id);
+  session_ctx_ = SessionCtx{};
+  return id;
+}
+
+std::vector<ScaleRecord> SqliteStore::list_scales() {
+  std::vector<ScaleRecord> out;
+  Stmt& q = stmt(fmt::format("SELECT {} FROM scales s ORDER BY s.id", kScaleCols));
+  while (q.step("listing scales")) out.push_back(read_scale(q));
+  q.reset();
+  return out;
+}
+
+std::optional<ScaleRecord> SqliteStore::find_scale(std::string_view code) {
+  Stmt& q = stmt(fmt::format("SELECT {} FROM scales s WHERE s.code = ?", kScaleCols));
+  q.bind(1, code);
+  std::optional<ScaleRecord> r;
+  if (q.step("finding a scale")) r = read_scale(q);
+  q.reset();
+  return r;
+}
+
+std::optional<ScaleRecord> SqliteStore::scale_by_id(long long id) {
+  auto it = scale_cache_.find(id);
+  if (it != scale_cache_.end()) return it->second;
+  Stmt& q = stmt(fmt::format("SELECT {} FROM scales s WHERE s.id = ?", kScaleCols));
+  q.bind(1, id);
+  std::optional<ScaleRecord> r;
+  if (q.step("reading a scale")) r = read_scale(q);
+  q.reset();
+  if (r) {
+    if (scale_cache_.size() > 4096) scale_cache_.clear();  // bounded memory
+    scale_cache_[id] = *r;
+  }
+  return r;
+}
+
+std::vector<Inspection> SqliteStore::inspections(long long scale_id) {
+  std::vector<Inspection> out;
+  Stmt& q = stmt("SELECT id, scale_id, inspected_on, seal, inspector, notes, entered_by, "
+                 "entered_at FROM scale_inspections WHERE scale_id = ? ORDER BY inspected_on, id");
+  q.bind(1, scale_id);
+  while (q.step("listing inspections")) {
+    Inspection i;
+    i.id = q.i64(0);
+    i.scale_id = q.i64(1);
+    i.inspected_on = q.text(2);
+    i.seal = q.opt_text(3);
+    i.inspector = q.opt_text(4);
+    i.notes = q.opt_text(5);
+    i.entered_by = q.opt_text(6);
+    i.entered_at = q.text(7);
+    out.push_back(std::move(i));
+  }
+  q.reset();
+  return out;
+}
+
+}  // namespace sp::store

@@ -1,0 +1,129 @@
+// The SQLite implementation of sp::store::Store (internal to src/store).
+// Split over sqlite_store.cpp (open, migrations, transactions, appends, scales, rigs),
+// sqlite_sessions.cpp (sessions, passes, corrections, reports) and sqlite_check.cpp (chain).
+#pragma once
+#include <map>
+#include <memory>
+#include <unordered_map>
+
+#include "store/chain.h"
+#include "store/sqlite_db.h"
+#include "store/store.h"
+
+namespace sp::store {
+
+class SqliteStore;
+
+// Binds one new row's values and builds its canonical encoding in the same pass, so the
+// hash covers exactly what is stored. Values must come in the table's chained column order.
+class RowBuilder {
+ public:
+  RowBuilder(SqliteStore& s, const char* table);
+  RowBuilder& i(long long v);
+  RowBuilder& i(const std::optional<long long>& v);
+  RowBuilder& r(double v);
+  RowBuilder& r(const std::optional<double>& v);
+  RowBuilder& t(std::string_view v);
+  RowBuilder& t(const std::string& v) { return t(std::string_view(v)); }
+  RowBuilder& t(const char* v) { return t(std::string_view(v)); }
+  RowBuilder& t(const std::optional<std::string>& v);
+  // Hashes, inserts and advances the chain; returns the new row's id.
+  long long append(std::string_view what);
+  long long id() const { return id_; }
+
+ private:
+  void expect(ColType type);
+  SqliteStore& s_;
+  struct Writer* w_;
+  long long id_ = 0;
+  long long seq_ = 0;
+  int param_ = 0;
+  size_t col_ = 0;
+};
+
+struct Writer {
+  const TableDesc* desc = nullptr;
+  std::unique_ptr<Stmt> insert;
+  int first_col_param = 0;  // parameter index of the first chained column
+  int hash_param = 0;
+  long long next_id = 0;    // 0: not read yet in this transaction
+};
+
+struct SessionCtx {
+  long long id = 0;
+  ScaleInfo scale;
+  WeightUnit unit = WeightUnit::lb;
+  bool closed = false;
+};
+
+class SqliteStore final : public Store {
+ public:
+  SqliteStore(const std::string& path, const Options& options);
+
+  void begin_write() override;
+  void begin_read() override;
+  void commit() override;
+  void rollback() noexcept override;
+
+  long long add_scale(const ScaleInfo& info, WeightUnit unit, const std::optional<std::string>& by,
+                      const std::string& at) override;
+  long long add_inspection(const Inspection& inspection) override;
+  std::vector<ScaleRecord> list_scales() override;
+  std::optional<ScaleRecord> find_scale(std::string_view code) override;
+  std::vector<Inspection> inspections(long long scale_id) override;
+
+  long long add_rig(const RigRecord& rig) override;
+  std::vector<RigRecord> list_rigs() override;
+  std::optional<RigRecord> find_rig(std::string_view key) override;
+
+  long long open_session(const NewSession& s) override;
+  void close_session(long long session_id, const std::optional<std::string>& by,
+                     const std::string& at) override;
+  std::vector<SessionSummary> list_sessions() override;
+  std::optional<long long> find_session_by_ref(std::string_view ref) override;
+  bool session_exists(long long session_id) override;
+  Session load_session(long long session_id) override;
+  SessionHistory session_history(long long session_id) override;
+  void for_each_session(const std::function<void(const Session&)>& fn) override;
+
+  long long add_pass(long long session_id, const Pass& pass) override;
+  long long void_pass(long long pass_id, const std::string& reason,
+                      const std::optional<std::string>& by, const std::string& at) override;
+
+  long long record_report(const IssuedReport& report) override;
+  std::vector<IssuedReport> list_reports(std::optional<long long> session_id) override;
+
+  ChainCheck check_chain(const std::function<void(long long)>& progress) override;
+  std::string head_hash() override;
+  long long row_count() override;
+  int schema_version() override;
+
+ private:
+  friend class RowBuilder;
+  void migrate(bool create);
+  void require_write(std::string_view what) const;
+  void load_head();
+  Writer& writer(const char* table);
+  Stmt& stmt(const std::string& sql);  // cached prepared statement
+  std::string when(const std::string& at) const { return at.empty() ? now_ : at; }
+  std::optional<ScaleRecord> scale_by_id(long long id);
+  std::optional<RigRecord> rig_by_id(long long id);
+  const SessionCtx& session_ctx(long long session_id);
+  void clear_caches();
+
+  Db db_;
+  bool in_write_ = false;
+  bool in_txn_ = false;
+  std::string now_;
+  long long next_seq_ = 1;
+  Hash head_{};
+  std::unordered_map<std::string, Writer> writers_;
+  std::unordered_map<std::string, std::unique_ptr<Stmt>> stmts_;
+  std::map<long long, ScaleRecord> scale_cache_;
+  std::map<long long, RigRecord> rig_cache_;
+  SessionCtx session_ctx_;
+  Sha256 sha_;
+  Encoder enc_;
+};
+
+}  // namespace sp::store

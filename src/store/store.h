@@ -1,0 +1,216 @@
+// The ticket store: an append-only, hash-chained ledger of scales, rigs, weigh sessions,
+// passes, corrections and issued reports. The CLI, the report and the audit code all use it
+// through this interface; tests open it on ":memory:" or a temp file.
+//
+// Units: every weight in a record is in the unit of the scale / rig it belongs to, exactly as
+// entered; nothing is converted. Times are ISO 8601 strings as given; when a record's time is
+// left empty the store fills in the current UTC time ("2026-12-01T19:05:57Z").
+// Transactions: every command runs in exactly one. begin_write() takes the write lock at once
+// (BEGIN IMMEDIATE) so concurrent writers serialise; a writer waits up to the busy timeout
+// (Options::busy_timeout_ms) and then gets sp::Error(temp_fail). Nothing is visible to others
+// until commit(); destroying a Txn without commit() rolls everything back.
+// Throws sp::Error: data_error for input the rules refuse (with the ticket / field named),
+// no_input for a missing record, temp_fail when busy, io_error for file trouble.
+#pragma once
+#include <functional>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/model.h"
+
+namespace sp::store {
+
+struct ScaleRecord {
+  long long id = 0;
+  ScaleInfo info;  // info.id is the station's scale code; info.last_inspected: latest inspection
+  WeightUnit unit = WeightUnit::lb;
+  std::optional<std::string> entered_by;
+  std::string entered_at;
+};
+
+struct Inspection {
+  long long id = 0;
+  long long scale_id = 0;
+  std::string inspected_on;         // ISO date YYYY-MM-DD
+  std::optional<std::string> seal;  // seal or certificate number
+  std::optional<std::string> inspector;
+  std::optional<std::string> notes;
+  std::optional<std::string> entered_by;
+  std::string entered_at;           // empty on input: now
+};
+
+struct RigRecord {
+  long long id = 0;
+  std::string name;
+  Units units;  // units of the geometry (length) and ratings (weight)
+  TowVehicle vehicle;
+  Trailer trailer;
+  std::optional<std::string> entered_by;
+  std::string entered_at;
+};
+
+struct NewSession {
+  std::optional<std::string> ref;  // external key, unique (CSV `session` column)
+  long long rig_id = 0;
+  long long scale_id = 0;
+  std::optional<std::string> station, operator_name, owner, notes;
+  std::optional<double> length_uncertainty;
+  std::optional<std::string> opened_by;
+  std::string opened_at;  // empty: now
+};
+
+struct SessionSummary {
+  long long id = 0;
+  std::optional<std::string> ref;
+  std::string rig_name;
+  std::string scale_code;
+  std::optional<std::string> operator_name;
+  std::string opened_at;
+  std::optional<std::string> closed_at;
+  long long passes = 0;
+  long long voided = 0;
+};
+
+struct Correction {
+  long long id = 0;
+  long long pass_id = 0;
+  std::string ticket;
+  std::string action;  // "void"
+  std::string reason;
+  std::optional<std::string> made_by;
+  std::string made_at;
+};
+
+struct IssuedReport {
+  long long id = 0;
+  long long session_id = 0;
+  std::string report_id;        // unique
+  std::string pdf_sha256;       // 64 lowercase hex digits
+  std::string key_fingerprint;  // signer public-key fingerprint
+  std::optional<std::string> signed_by;
+  std::string issued_at;        // empty on input: now
+};
+
+// Everything recorded about one session, for `session show` and the report.
+struct SessionHistory {
+  Session session;  // the corrected view the engine gets (voided passes flagged)
+  std::optional<std::string> ref;
+  std::optional<std::string> opened_by;
+  std::string opened_at;
+  std::optional<std::string> closed_by, closed_at;
+  std::string rig_name;
+  std::vector<Correction> corrections;
+  std::vector<Inspection> inspections;  // of the session's scale, oldest first
+  std::vector<IssuedReport> reports;
+};
+
+// Result of walking the chain. When !ok, table/id/ticket/seq name the first bad row.
+struct ChainCheck {
+  bool ok = true;
+  long long rows = 0;       // rows verified (all of them when ok)
+  std::string head;         // hex SHA-256 of the last row ("" for an empty store)
+  std::string table;
+  long long id = 0;
+  long long seq = 0;
+  std::optional<std::string> ticket;
+  std::string problem;      // what does not match, in plain words
+};
+
+class Store {
+ public:
+  virtual ~Store() = default;
+
+  virtual void begin_write() = 0;
+  virtual void begin_read() = 0;
+  virtual void commit() = 0;
+  virtual void rollback() noexcept = 0;
+
+  // Scales. `info.last_inspected`, when set, is recorded as a first inspection.
+  virtual long long add_scale(const ScaleInfo& info, WeightUnit unit,
+                              const std::optional<std::string>& by, const std::string& at) = 0;
+  virtual long long add_inspection(const Inspection& inspection) = 0;
+  virtual std::vector<ScaleRecord> list_scales() = 0;
+  virtual std::optional<ScaleRecord> find_scale(std::string_view code) = 0;
+  virtual std::vector<Inspection> inspections(long long scale_id) = 0;
+
+  // Rigs: a tow vehicle and a trailer, stored as their own rows, joined under a unique name.
+  virtual long long add_rig(const RigRecord& rig) = 0;
+  virtual std::vector<RigRecord> list_rigs() = 0;
+  // By name, or by id when `key` is all digits and no rig has it as its name.
+  virtual std::optional<RigRecord> find_rig(std::string_view key) = 0;
+
+  // Sessions get ids 1, 2, 3, ... The scale's unit must equal the rig's weight unit.
+  virtual long long open_session(const NewSession& s) = 0;
+  virtual void close_session(long long session_id, const std::optional<std::string>& by,
+                             const std::string& at) = 0;
+  virtual std::vector<SessionSummary> list_sessions() = 0;
+  virtual std::optional<long long> find_session_by_ref(std::string_view ref) = 0;
+  virtual bool session_exists(long long session_id) = 0;
+  // The corrected view of one session (throws no_input when absent).
+  virtual Session load_session(long long session_id) = 0;
+  virtual SessionHistory session_history(long long session_id) = 0;
+  // Every session in id order, one at a time (memory does not grow with the store).
+  virtual void for_each_session(const std::function<void(const Session&)>& fn) = 0;
+
+  // Appends a pass after checking it against its session and scale: session open, ticket new
+  // in the session, readings multiples of the division and in range, trailer reading absent
+  // or 0 when unhitched, setting only on tensioned passes, printed gross = sum of platforms.
+  // Returns the pass id. Pass.id / voided / void_reason are ignored (see void_pass).
+  virtual long long add_pass(long long session_id, const Pass& pass) = 0;
+  // Appends a correction that voids a pass (it stays stored and visible).
+  virtual long long void_pass(long long pass_id, const std::string& reason,
+                              const std::optional<std::string>& by, const std::string& at) = 0;
+
+  virtual long long record_report(const IssuedReport& report) = 0;
+  // All reports (session_id = nullopt) or those of one session, in issue order.
+  virtual std::vector<IssuedReport> list_reports(std::optional<long long> session_id) = 0;
+
+  // Walks the whole chain; `progress(rows_done)` is called now and then when given.
+  virtual ChainCheck check_chain(const std::function<void(long long)>& progress = {}) = 0;
+  // Hex SHA-256 of the chain's last row; "" when the store is empty.
+  virtual std::string head_hash() = 0;
+  virtual long long row_count() = 0;
+  virtual int schema_version() = 0;
+};
+
+struct Options {
+  bool create = false;          // init: create the file and apply migrations
+  // 5 s: long enough for another operator's single command to commit (a pass add is ~1 ms),
+  // short enough that a stuck process is reported instead of hanging (common practice).
+  int busy_timeout_ms = 5000;
+};
+
+// Opens the SQLite store at `path` (":memory:" for tests). Applies pending migrations when
+// opening an existing store of an older version; refuses a newer one (data_error).
+// Without create, a missing file is no_input ("run scaleproof init").
+std::unique_ptr<Store> open_sqlite_store(const std::string& path, const Options& options);
+
+// Scope guard for one command's transaction.
+class Txn {
+ public:
+  enum Kind { read, write };
+  Txn(Store& s, Kind k) : s_(s) {
+    if (k == write) s_.begin_write(); else s_.begin_read();
+  }
+  ~Txn() {
+    if (!done_) s_.rollback();
+  }
+  Txn(const Txn&) = delete;
+  Txn& operator=(const Txn&) = delete;
+  void commit() {
+    s_.commit();
+    done_ = true;
+  }
+
+ private:
+  Store& s_;
+  bool done_ = false;
+};
+
+// Current UTC time as "YYYY-MM-DDTHH:MM:SSZ".
+std::string now_utc();
+
+}  // namespace sp::store

@@ -1,0 +1,91 @@
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <limits>
+
+#include "core/error.h"
+#include "report/record.h"
+#include "report/signer.h"
+
+using namespace sp::report;
+using nlohmann::json;
+
+TEST_CASE("canonical JSON sorts keys and fixes number forms") {
+  // Rules documented in report/record.h and reports/VERIFY.md (our own format).
+  struct Case {
+    const char* what;
+    json value;
+    const char* text;
+  };
+  const Case cases[] = {
+      {"keys sorted at every level", json::parse(R"({"b":1,"a":{"z":true,"y":null}})"),
+       R"({"a":{"y":null,"z":true},"b":1})"},
+      {"integral double as integer", json{{"w", 4180.0}}, R"({"w":4180})"},
+      {"negative zero", json{{"w", -0.0}}, R"({"w":0})"},
+      {"shortest round-trip decimal", json{{"w", 0.1}}, R"({"w":0.1})"},
+      {"small number", json{{"w", 1.5e-7}}, R"({"w":1.5e-07})"},
+      {"array order kept", json::parse("[3,1,2]"), "[3,1,2]"},
+      {"UTF-8 kept as is", json{{"unit", "lbf·ft"}}, "{\"unit\":\"lbf\xc2\xb7" "ft\"}"},
+      {"escapes", json{{"s", "a\"b\n"}}, R"({"s":"a\"b\n"})"},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.what);
+    CHECK(canonical_json(c.value) == c.text);
+    // Canonical text is a fixed point: parse and re-canonicalise gives the same bytes.
+    CHECK(canonical_json(json::parse(c.text)) == c.text);
+  }
+}
+
+TEST_CASE("canonical JSON refuses non-finite numbers") {
+  json v = {{"x", std::numeric_limits<double>::quiet_NaN()}};
+  CHECK_THROWS_AS(canonical_json(v), sp::Error);
+}
+
+TEST_CASE("record carries format, key and a content-derived id") {
+  RecordMeta meta;
+  meta.software = "scaleproof test";
+  meta.public_key = std::string(32, '\x07');
+  json session = {{"ticket", "LF-1"}}, results = {{"tongue_load", {{"value", 1000}}}};
+  json a = build_record(session, results, meta);
+  CHECK(a["format"] == "scaleproof-record/1");
+  CHECK(a["report"]["public_key"] == to_hex(meta.public_key));
+  CHECK(a["report"]["key_fingerprint"] == fingerprint(meta.public_key));
+  CHECK(a["report"]["issued_at"].is_null());  // no clock unless given
+  std::string id = a["report"]["id"];
+  CHECK(id.rfind("SP-", 0) == 0);
+  CHECK(id.size() == 15);
+  CHECK(build_record(session, results, meta)["report"]["id"] == id);  // deterministic
+  meta.signed_by = "Ines Brodowska-Quill";
+  CHECK(build_record(session, results, meta)["report"]["id"] != id);
+  results["tongue_load"]["value"] = 1001;
+  meta.signed_by.reset();
+  CHECK(build_record(session, results, meta)["report"]["id"] != id);
+}
+
+TEST_CASE("compare_results tolerates last-bit noise and names real differences") {
+  json stated = json::parse(R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})");
+  struct Case {
+    const char* what;
+    const char* recomputed;
+    std::size_t differences;
+    const char* names;
+  };
+  const Case cases[] = {
+      {"identical", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})", 0, ""},
+      {"within 1e-6 relative", R"({"tongue_load":{"value":1000.0000001,"u":15.0},"flags":[{"code":"a"}],"x":null})", 0, ""},
+      {"value changed", R"({"tongue_load":{"value":1010.0,"u":15.0},"flags":[{"code":"a"}],"x":null})", 1,
+       "$.tongue_load.value"},
+      {"flag changed", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"b"}],"x":null})", 1,
+       "$.flags[0].code"},
+      {"extra flag", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"},{"code":"b"}],"x":null})", 1,
+       "$.flags"},
+      {"null became number", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":3})", 1, "$.x"},
+      {"key missing", R"({"tongue_load":{"value":1000.0},"flags":[{"code":"a"}],"x":null})", 1, "$.tongue_load.u"},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.what);
+    auto diffs = compare_results(stated, json::parse(c.recomputed));
+    CHECK(diffs.size() == c.differences);
+    if (!diffs.empty()) CHECK(diffs[0].find(c.names) != std::string::npos);
+  }
+}

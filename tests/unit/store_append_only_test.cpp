@@ -1,0 +1,41 @@
+// Append-only: every table refuses UPDATE, DELETE and INSERT OR REPLACE, both through a
+// plain connection (like the sqlite3 shell) and through the store's own connection settings.
+#include <doctest/doctest.h>
+
+#include "store/chain.h"
+#include "store_fixture.h"
+
+using namespace storetest;
+
+TEST_CASE("every chained table refuses update, delete and replace") {
+  TempStore ts;
+  long long s = seed_session(*ts.store);
+  add_demo_passes(*ts.store, s);
+  ts.store->begin_write();
+  ts.store->void_pass(*ts.store->load_session(s).passes[0].id, "keyed twice",
+                      std::string("R. Quill"), "");
+  Inspection in;
+  in.scale_id = 1;
+  in.inspected_on = "2026-09-01";
+  in.seal = "SEAL-0042";
+  ts.store->add_inspection(in);
+  ts.store->close_session(s, std::string("R. Quill"), "");
+  IssuedReport rep{0, s, "WR-0001", std::string(64, 'a'), "fp:1234", std::string("R. Quill"), ""};
+  ts.store->record_report(rep);
+  ts.store->commit();
+  for (const auto& t : chained_tables()) {
+    CAPTURE(t.name);
+    std::string first = t.columns[0].name;
+    std::string update = std::string("UPDATE ") + t.name + " SET hash = hash";
+    std::string del = std::string("DELETE FROM ") + t.name;
+    std::string cols, vals;
+    std::string replace = std::string("INSERT OR REPLACE INTO ") + t.name + " SELECT * FROM " +
+                          t.name + " LIMIT 1";
+    for (const std::string& sql : {update, del, replace}) {
+      CAPTURE(sql);
+      std::string err = ts.raw(sql);
+      CHECK(err.find("append-only") != std::string::npos);
+    }
+  }
+  CHECK(ts.store->check_chain({}).ok);
+}
