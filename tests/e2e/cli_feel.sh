@@ -46,7 +46,7 @@ fi
 # Man page and bash completion generated from the command definitions.
 expect_exit 0 "$SCALEPROOF" man
 expect_in "$WORK/out" ".TH SCALEPROOF 1"
-for c in $commands; do expect_in "$WORK/out" ".SS \"scaleproof $c\""; done
+for c in $commands; do expect_in "$WORK/out" ".SS \"scaleproof ${c//-/\\-}\""; done  # roff escapes -
 expect_in "$WORK/out" "NO_COLOR"
 if command -v groff >/dev/null; then
   groff -man -Tutf8 -ww -z "$WORK/out" 2>"$WORK/groff" || fail "groff rejects the man page"
