@@ -82,7 +82,9 @@ for i in $(seq 1 "$KILLS"); do
   healthy "pass-add kill $i at ${delay_ms} ms"
   logged=$(grep -c "^L$i-" "$WORK/done.txt" || true)
   stored=$(sql "SELECT count(*) FROM passes WHERE session_id = $sid AND ticket LIKE 'L$i-%';")
-  list=$(grep "^L$i-" "$WORK/done.txt" | sed "s/.*/'&'/" | paste -sd, -)
+  # grep finds nothing when the kill came before the first pass was acknowledged; under
+  # pipefail that must not end the script (regression: silent exit after a kill at 0 passes).
+  list=$( { grep "^L$i-" "$WORK/done.txt" || true; } | sed "s/.*/'&'/" | paste -sd, -)
   found=0
   [ -z "$list" ] || found=$(sql "SELECT count(*) FROM passes WHERE session_id = $sid AND ticket IN ($list);")
   missing=$((logged - found))
