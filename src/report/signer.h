@@ -1,7 +1,7 @@
 // Ed25519 signing (RFC 8032) behind a small interface, so callers and tests work in memory.
 //
 // Keys: a raw Ed25519 public key is 32 bytes, a signature 64 bytes (RFC 8032 §5.1.5, §5.1.6).
-// Key files are PEM: the private key as PKCS#8 ("BEGIN PRIVATE KEY"), the public key as
+// Key files are PEM: the private key as unencrypted PKCS#8, the public key as
 // SubjectPublicKeyInfo ("BEGIN PUBLIC KEY"), so stock `openssl pkeyutl` reads them.
 // Fingerprint: SHA-256 (FIPS 180-4) of the raw 32-byte public key, lower-case hex, in groups
 // of 4 characters separated by spaces (16 groups), for reading aloud over the phone.
