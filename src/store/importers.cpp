@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <map>
+#include <vector>
 
 #include "core/error.h"
 #include "format/pass_csv.h"
@@ -18,9 +19,45 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
   std::string last_ref;
   long long session_id = 0;
   std::map<std::string, long long> scale_ids;  // scale code -> id (a station has few)
+  std::map<std::string, long long> rig_ids;    // rig name -> id (rigs repeat across sessions)
+  // Consecutive passes of one session go to the store together (one INSERT for up to
+  // kBatch rows): the statement's fixed cost is most of a row's cost (bench/README.md).
+  constexpr size_t kBatch = 16;
+  std::vector<Pass> pending;
+  std::vector<long> pending_lines;
+  auto at_line = [&](long line, const Error& e) {
+    if (e.code() == ExitCode::no_input) {
+      return Error(ExitCode::data_error, fmt::format("{}:{}: {}", source, line, e.what()));
+    }
+    return e.within(fmt::format("{}:{}", source, line));
+  };
+  auto flush = [&]() -> long long {
+    if (pending.empty()) return 0;
+    std::vector<long long> ids;
+    try {
+      ids = store.add_passes(session_id, pending);
+    } catch (const Error& batch_error) {
+      // Nothing of the batch was stored: replay it row by row so the message names the line.
+      for (size_t k = 0; k < pending.size(); ++k) {
+        try {
+          store.add_pass(session_id, pending[k]);
+        } catch (const Error& e) {
+          throw at_line(pending_lines[k], e);
+        }
+      }
+      throw at_line(pending_lines.front(), batch_error);
+    }
+    long long before = stats.passes;
+    stats.passes += static_cast<long long>(ids.size());
+    if (progress && before / 4096 != stats.passes / 4096) progress(reader.bytes_read());
+    pending.clear();
+    pending_lines.clear();
+    return ids.back();
+  };
   while (reader.next(row)) {
     try {
       if (session_id == 0 || row.session != last_ref) {
+        flush();
         auto found = store.find_session_by_ref(row.session);
         if (found) {
           session_id = *found;
@@ -44,13 +81,17 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
             }
             it = scale_ids.emplace(*row.scale, sc->id).first;
           }
-          auto rig = store.find_rig(*row.rig);
-          if (!rig) {
-            throw data_error("rig: " + *row.rig + " is not in the store (add it with `scaleproof rig add`)");
+          auto rit = rig_ids.find(*row.rig);
+          if (rit == rig_ids.end()) {
+            auto rig = store.find_rig(*row.rig);
+            if (!rig) {
+              throw data_error("rig: " + *row.rig + " is not in the store (add it with `scaleproof rig add`)");
+            }
+            rit = rig_ids.emplace(*row.rig, rig->id).first;
           }
           NewSession ns;
           ns.ref = row.session;
-          ns.rig_id = rig->id;
+          ns.rig_id = rit->second;
           ns.scale_id = it->second;
           ns.operator_name = row.operator_name;
           ns.opened_by = by;
@@ -59,21 +100,25 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
         }
         last_ref = row.session;
       }
-      if (!row.pass.entered_by) row.pass.entered_by = by;
-      long long pass_id = store.add_pass(session_id, row.pass);
-      ++stats.passes;
-      if (row.void_reason) {
-        store.void_pass(pass_id, *row.void_reason, row.pass.entered_by, "");
-        ++stats.voided;
-      }
     } catch (const Error& e) {
-      if (e.code() == ExitCode::no_input) {
-        throw Error(ExitCode::data_error, fmt::format("{}:{}: {}", source, row.line, e.what()));
-      }
-      throw e.within(fmt::format("{}:{}", source, row.line));
+      throw at_line(row.line, e);
     }
-    if (progress && (stats.passes & 0xfff) == 0) progress(reader.bytes_read());
+    if (!row.pass.entered_by) row.pass.entered_by = by;
+    pending.push_back(row.pass);
+    pending_lines.push_back(row.line);
+    if (row.void_reason) {
+      long long pass_id = flush();
+      try {
+        store.void_pass(pass_id, *row.void_reason, row.pass.entered_by, "");
+      } catch (const Error& e) {
+        throw at_line(row.line, e);
+      }
+      ++stats.voided;
+    } else if (pending.size() == kBatch) {
+      flush();
+    }
   }
+  flush();
   if (progress) progress(reader.bytes_read());
   if (stats.passes == 0) throw data_error(source + ": no passes (only a header)");
   return stats;

@@ -21,7 +21,18 @@ ExitCode exit_code_for(int rc) {
   }
 }
 
+namespace {
+// Memory statistics make every SQLite allocation take a process-wide mutex; the store never
+// reads them. Must run before SQLite initialises (sqlite3_config docs, SQLITE_CONFIG_MEMSTATUS),
+// hence once, before the first open; a later call would fail harmlessly with SQLITE_MISUSE.
+void configure_sqlite_once() {
+  static const int rc = sqlite3_config(SQLITE_CONFIG_MEMSTATUS, 0);
+  (void)rc;
+}
+}  // namespace
+
 Db::Db(const std::string& path, bool create, int busy_timeout_ms) : path_(path) {
+  configure_sqlite_once();
   int flags = SQLITE_OPEN_READWRITE | (create ? SQLITE_OPEN_CREATE : 0) | SQLITE_OPEN_NOMUTEX;
   int rc = sqlite3_open_v2(path.c_str(), &db_, flags, nullptr);
   if (rc != SQLITE_OK) {

@@ -232,11 +232,8 @@ long long SqliteStore::add_pass(long long session_id, const Pass& pass) {
   }
   check_pass(pass, ctx.scale, ctx.unit);
   try {
-    return RowBuilder(*this, "passes")
-        .i(session_id).t(to_string(pass.kind)).t(pass.setting).t(pass.ticket).t(pass.weighed_at)
-        .r(pass.steer).r(pass.drive).r(pass.trailer).r(pass.gross).t(pass.scale_id)
-        .t(pass.entered_by).t(pass.entered_at ? *pass.entered_at : now_)
-        .append("adding ticket " + pass.ticket);
+    RowBuilder b(*this, "passes");
+    return bind_pass(b, session_id, pass).append("adding ticket " + pass.ticket);
   } catch (const Error& e) {
     if (e.code() != ExitCode::data_error) throw;
     Stmt& q = stmt("SELECT id FROM passes WHERE session_id = ? AND ticket = ?");
@@ -251,6 +248,45 @@ long long SqliteStore::add_pass(long long session_id, const Pass& pass) {
     }
     throw;
   }
+}
+
+RowBuilder& SqliteStore::bind_pass(RowBuilder& b, long long session_id, const Pass& pass) {
+  return b.i(session_id).t(to_string(pass.kind)).t(pass.setting).t(pass.ticket)
+      .t(pass.weighed_at).r(pass.steer).r(pass.drive).r(pass.trailer).r(pass.gross)
+      .t(pass.scale_id).t(pass.entered_by).t(pass.entered_at ? *pass.entered_at : now_);
+}
+
+std::vector<long long> SqliteStore::add_passes(long long session_id,
+                                               const std::vector<Pass>& passes) {
+  std::vector<long long> ids;
+  if (passes.size() <= 1) {
+    for (const auto& p : passes) ids.push_back(add_pass(session_id, p));
+    return ids;
+  }
+  const SessionCtx& ctx = session_ctx(session_id);
+  if (ctx.closed) {
+    throw data_error(fmt::format("ticket {}: session {} is closed; open a new session",
+                                 passes.front().ticket, session_id));
+  }
+  for (const auto& p : passes) check_pass(p, ctx.scale, ctx.unit);
+  Stmt& st = batch_insert("passes", passes.size());
+  Hash head = head_;
+  for (size_t k = 0; k < passes.size(); ++k) {
+    long long seq = next_seq_ + static_cast<long long>(k);
+    RowBuilder b(*this, "passes", st, static_cast<int>(k), seq);
+    head = bind_pass(b, session_id, passes[k]).stage(head);
+    ids.push_back(seq);
+  }
+  try {
+    st.run(fmt::format("adding tickets {} to {}", passes.front().ticket, passes.back().ticket));
+  } catch (...) {
+    st.reset();
+    throw;
+  }
+  // Only now, with every row stored, does the chain advance (a failed batch leaves no trace).
+  head_ = head;
+  next_seq_ += static_cast<long long>(passes.size());
+  return ids;
 }
 
 long long SqliteStore::void_pass(long long pass_id, const std::string& reason,

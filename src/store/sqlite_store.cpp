@@ -40,9 +40,26 @@ RowBuilder::RowBuilder(SqliteStore& s, const char* table) : s_(s) {
     }
     id_ = w_->next_id;
   }
-  w_->insert->bind(1, id_);
-  if (!w_->desc->id_is_seq) w_->insert->bind(2, seq_);
+  st_ = w_->insert.get();
+  hash_param_ = w_->hash_param;
+  st_->bind(1, id_);
+  if (!w_->desc->id_is_seq) st_->bind(2, seq_);
   param_ = w_->first_col_param;
+  s_.enc_.start(*w_->desc, seq_, id_);
+}
+
+RowBuilder::RowBuilder(SqliteStore& s, const char* table, Stmt& batch, int row, long long seq)
+    : s_(s), st_(&batch) {
+  s_.require_write(table);
+  w_ = &s_.writer(table);
+  if (!w_->desc->id_is_seq) {
+    throw Error(ExitCode::internal, fmt::format("{}: batch rows need id = seq", table));
+  }
+  seq_ = id_ = seq;
+  int base = row * (w_->first_col_param - 1 + static_cast<int>(w_->desc->columns.size()));
+  st_->bind(base + 1, id_);
+  hash_param_ = base + w_->hash_param;
+  param_ = base + w_->first_col_param;
   s_.enc_.start(*w_->desc, seq_, id_);
 }
 
@@ -56,14 +73,14 @@ void RowBuilder::expect(ColType type) {
 
 RowBuilder& RowBuilder::i(long long v) {
   expect(ColType::integer);
-  w_->insert->bind(param_++, v);
+  st_->bind(param_++, v);
   s_.enc_.add_int(v);
   return *this;
 }
 RowBuilder& RowBuilder::i(const std::optional<long long>& v) {
   if (v) return i(*v);
   expect(ColType::integer);
-  w_->insert->bind_null(param_++);
+  st_->bind_null(param_++);
   s_.enc_.add_null();
   return *this;
 }
@@ -73,42 +90,53 @@ RowBuilder& RowBuilder::r(double v) {
     throw data_error(fmt::format("{}: expected a finite number, got {}",
                                  w_->desc->columns[col_ - 1].name, v));
   }
-  w_->insert->bind(param_++, v);
+  st_->bind(param_++, v);
   s_.enc_.add_real(v);
   return *this;
 }
 RowBuilder& RowBuilder::r(const std::optional<double>& v) {
   if (v) return r(*v);
   expect(ColType::real);
-  w_->insert->bind_null(param_++);
+  st_->bind_null(param_++);
   s_.enc_.add_null();
   return *this;
 }
 RowBuilder& RowBuilder::t(std::string_view v) {
   expect(ColType::text);
-  w_->insert->bind(param_++, v);
+  st_->bind(param_++, v);
   s_.enc_.add_text(v);
   return *this;
 }
 RowBuilder& RowBuilder::t(const std::optional<std::string>& v) {
   if (v) return t(std::string_view(*v));
   expect(ColType::text);
-  w_->insert->bind_null(param_++);
+  st_->bind_null(param_++);
   s_.enc_.add_null();
   return *this;
 }
 
-long long RowBuilder::append(std::string_view what) {
+void RowBuilder::check_complete() const {
   if (col_ != w_->desc->columns.size()) {
     throw Error(ExitCode::internal, fmt::format("{}: {} of {} columns bound", w_->desc->name,
                                                 col_, w_->desc->columns.size()));
   }
+}
+
+Hash RowBuilder::stage(const Hash& prev) {
+  check_complete();
+  Hash h = s_.sha_.digest(prev, s_.enc_.data());
+  st_->bind_blob(hash_param_, h.data(), static_cast<int>(h.size()));
+  return h;
+}
+
+long long RowBuilder::append(std::string_view what) {
+  check_complete();
   Hash h = s_.sha_.digest(s_.head_, s_.enc_.data());
-  w_->insert->bind_blob(w_->hash_param, h.data(), static_cast<int>(h.size()));
+  st_->bind_blob(hash_param_, h.data(), static_cast<int>(h.size()));
   try {
-    w_->insert->run(what);
+    st_->run(what);
   } catch (...) {
-    w_->insert->reset();
+    st_->reset();
     throw;
   }
   s_.head_ = h;
@@ -266,6 +294,19 @@ Writer& SqliteStore::writer(const char* table) {
   w.insert = std::make_unique<Stmt>(
       db_, fmt::format("INSERT INTO {} ({}) VALUES ({})", table, cols, params));
   return writers_.emplace(table, std::move(w)).first->second;
+}
+
+Stmt& SqliteStore::batch_insert(const char* table, size_t rows) {
+  Writer& w = writer(table);
+  if (w.batch.size() <= rows) w.batch.resize(rows + 1);
+  if (w.batch[rows]) return *w.batch[rows];
+  // The single-row INSERT's text, its VALUES tuple repeated: same columns, same order.
+  std::string sql = sqlite3_sql(w.insert->handle());
+  auto open = sql.find("VALUES (");
+  std::string tuple = sql.substr(open + 7);
+  for (size_t k = 1; k < rows; ++k) sql += ", " + tuple;
+  w.batch[rows] = std::make_unique<Stmt>(db_, sql);
+  return *w.batch[rows];
 }
 
 Stmt& SqliteStore::stmt(const std::string& sql) {

@@ -19,6 +19,9 @@ class SqliteStore;
 class RowBuilder {
  public:
   RowBuilder(SqliteStore& s, const char* table);
+  // Row `row` (0-based) of a multi-row INSERT prepared by SqliteStore::batch_insert, at chain
+  // position `seq`. Only for tables whose id is their seq (passes). Finish with stage().
+  RowBuilder(SqliteStore& s, const char* table, Stmt& batch, int row, long long seq);
   RowBuilder& i(long long v);
   RowBuilder& i(const std::optional<long long>& v);
   RowBuilder& r(double v);
@@ -29,12 +32,18 @@ class RowBuilder {
   RowBuilder& t(const std::optional<std::string>& v);
   // Hashes, inserts and advances the chain; returns the new row's id.
   long long append(std::string_view what);
+  // Batch rows: binds this row's hash, computed on `prev`, and returns it; the caller runs the
+  // statement and advances the chain only when the whole batch is stored.
+  Hash stage(const Hash& prev);
   long long id() const { return id_; }
 
  private:
   void expect(ColType type);
+  void check_complete() const;
   SqliteStore& s_;
   struct Writer* w_;
+  Stmt* st_ = nullptr;  // the statement the values are bound to
+  int hash_param_ = 0;
   long long id_ = 0;
   long long seq_ = 0;
   int param_ = 0;
@@ -47,6 +56,7 @@ struct Writer {
   int first_col_param = 0;  // parameter index of the first chained column
   int hash_param = 0;
   long long next_id = 0;    // 0: not read yet in this transaction
+  std::vector<std::unique_ptr<Stmt>> batch;  // [n]: INSERT of n rows (see batch_insert)
 };
 
 struct SessionCtx {
@@ -85,8 +95,10 @@ class SqliteStore final : public Store {
   Session load_session(long long session_id) override;
   SessionHistory session_history(long long session_id) override;
   void for_each_session(const std::function<void(const Session&)>& fn) override;
+  std::vector<std::string> shared_tickets() override;  // sqlite_stream.cpp
 
   long long add_pass(long long session_id, const Pass& pass) override;
+  std::vector<long long> add_passes(long long session_id, const std::vector<Pass>& passes) override;
   long long void_pass(long long pass_id, const std::string& reason,
                       const std::optional<std::string>& by, const std::string& at) override;
 
@@ -104,11 +116,13 @@ class SqliteStore final : public Store {
   void require_write(std::string_view what) const;
   void load_head();
   Writer& writer(const char* table);
+  Stmt& batch_insert(const char* table, size_t rows);  // cached n-row INSERT of a seq table
   Stmt& stmt(const std::string& sql);  // cached prepared statement
   std::string when(const std::string& at) const { return at.empty() ? now_ : at; }
   std::optional<ScaleRecord> scale_by_id(long long id);
   std::optional<RigRecord> rig_by_id(long long id);
   const SessionCtx& session_ctx(long long session_id);
+  RowBuilder& bind_pass(RowBuilder& b, long long session_id, const Pass& pass);
   void clear_caches();
 
   Db db_;

@@ -154,12 +154,22 @@ class Store {
   virtual SessionHistory session_history(long long session_id) = 0;
   // Every session in id order, one at a time (memory does not grow with the store).
   virtual void for_each_session(const std::function<void(const Session&)>& fn) = 0;
+  // Ticket numbers that occur in the passes of more than one session (voided passes included),
+  // sorted. The candidates for the audit's ticket-reuse rule: a store audit indexes only these,
+  // so its memory does not grow with the store. Implemented in sqlite_stream.cpp.
+  virtual std::vector<std::string> shared_tickets() = 0;
 
   // Appends a pass after checking it against its session and scale: session open, ticket new
   // in the session, readings multiples of the division and in range, trailer reading absent
   // or 0 when unhitched, setting only on tensioned passes, printed gross = sum of platforms.
   // Returns the pass id. Pass.id / voided / void_reason are ignored (see void_pass).
   virtual long long add_pass(long long session_id, const Pass& pass) = 0;
+  // The same for several passes of one session, in order, stored by one statement (an import's
+  // hot path: one statement's fixed cost shared by the rows). All or none are stored; on an
+  // error nothing of the batch is stored and the caller may replay the passes one by one with
+  // add_pass to name the one at fault. Returns the pass ids in order.
+  virtual std::vector<long long> add_passes(long long session_id,
+                                            const std::vector<Pass>& passes) = 0;
   // Appends a correction that voids a pass (it stays stored and visible).
   virtual long long void_pass(long long pass_id, const std::string& reason,
                               const std::optional<std::string>& by, const std::string& at) = 0;

@@ -174,3 +174,53 @@ TEST_CASE("sessions refuse a scale and rig in different weight units") {
   CHECK_THROWS_WITH_AS(ts.store->open_session(ns), doctest::Contains("use one weight unit"), Error);
   ts.store->rollback();
 }
+
+// Guards the import's batched path (Store::add_passes, one INSERT for several rows): it must
+// store exactly what add_pass would, chain included, and a batch that fails must leave no trace.
+TEST_CASE("add_passes stores a batch like add_pass, and a failed batch leaves no trace") {
+  TempStore ts;
+  long long session = seed_session(*ts.store);
+  std::vector<Pass> batch = {
+      make_pass(PassKind::unhitched, "A-1001", 4600, 3900),
+      make_pass(PassKind::hitched, "A-1002", 4340, 4960, 6200),
+      make_pass(PassKind::tensioned, "A-1003", 4460, 4760, 6280, "4"),
+  };
+  ts.store->begin_write();
+  std::vector<long long> ids = ts.store->add_passes(session, batch);
+  ts.store->commit();
+  REQUIRE(ids.size() == 3);
+  CHECK(ids[1] == ids[0] + 1);
+  CHECK(ids[2] == ids[0] + 2);
+  ChainCheck c = ts.store->check_chain();
+  CHECK(c.ok);
+  Session s = ts.store->load_session(session);
+  REQUIRE(s.passes.size() == 3);
+  for (size_t k = 0; k < 3; ++k) {
+    CAPTURE(k);
+    CHECK(s.passes[k].ticket == batch[k].ticket);
+    CHECK(s.passes[k].steer == batch[k].steer);
+    CHECK(s.passes[k].trailer == batch[k].trailer);
+    CHECK(s.passes[k].setting == batch[k].setting);
+  }
+  // One pass after a batch continues the same chain.
+  ts.store->begin_write();
+  long long next = ts.store->add_pass(session, make_pass(PassKind::tensioned, "A-1004", 4480,
+                                                         4740, 6280, "5"));
+  ts.store->commit();
+  CHECK(next == ids[2] + 1);
+  CHECK(ts.store->check_chain().ok);
+
+  // A batch whose last row repeats a ticket: the statement fails as a whole.
+  std::string head = ts.store->head_hash();
+  std::vector<Pass> bad = {make_pass(PassKind::tensioned, "A-1005", 4480, 4740, 6280, "6"),
+                           make_pass(PassKind::unhitched, "A-1001", 4600, 3900)};
+  ts.store->begin_write();
+  CHECK_THROWS_AS(ts.store->add_passes(session, bad), Error);
+  // The store stays usable in the same transaction and the chain did not advance.
+  long long after = ts.store->add_pass(session, bad.front());
+  ts.store->commit();
+  CHECK(after == next + 1);
+  CHECK(ts.store->check_chain().ok);
+  CHECK(ts.store->load_session(session).passes.size() == 5);
+  CHECK(head != ts.store->head_hash());
+}
