@@ -6,6 +6,7 @@
 #include <set>
 
 #include "core/error.h"
+#include "core/typo.h"
 
 namespace sp::format {
 
@@ -125,35 +126,7 @@ json parse_json_strict(std::string_view text, const std::string& source) {
 }
 
 std::string closest_name(const std::string& word, const std::vector<std::string>& candidates) {
-  // Optimal-string-alignment distance over bytes: Levenshtein plus adjacent transpositions
-  // ("gvrw" -> "gvwr" is one edit), the commonest typing slip.
-  auto distance = [](const std::string& a, const std::string& b) {
-    std::vector<std::vector<std::size_t>> d(a.size() + 1, std::vector<std::size_t>(b.size() + 1));
-    for (std::size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
-    for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
-    for (std::size_t i = 1; i <= a.size(); ++i) {
-      for (std::size_t j = 1; j <= b.size(); ++j) {
-        const std::size_t cost = a[i - 1] == b[j - 1] ? 0 : 1;
-        d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
-        if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
-          d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
-        }
-      }
-    }
-    return d[a.size()][b.size()];
-  };
-  std::string best;
-  std::size_t best_d = 0;
-  for (const auto& c : candidates) {
-    const std::size_t d = distance(word, c);
-    if (best.empty() || d < best_d) {
-      best = c;
-      best_d = d;
-    }
-  }
-  // A typo: at most a third of the word changed (at least one edit allowed).
-  const std::size_t limit = std::max<std::size_t>(1, std::max(word.size(), best.size()) / 3);
-  return (!best.empty() && best_d <= limit) ? best : std::string();
+  return likely_typo(word, candidates);
 }
 
 std::string describe_json(const json& v) {
