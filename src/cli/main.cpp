@@ -13,6 +13,17 @@
 
 namespace {
 
+// A required option has no default worth showing: CLI11 would print the zero it captured
+// ("--session INT=0 REQUIRED"), which reads as if 0 were accepted.
+void hide_required_defaults(CLI::App& app) {
+  for (CLI::Option* o : app.get_options()) {
+    if (o->get_required()) o->default_str("");
+  }
+  for (CLI::App* sub : app.get_subcommands([](CLI::App*) { return true; })) {
+    hide_required_defaults(*sub);
+  }
+}
+
 int run(int argc, char** argv) {
   sp::cli::Context ctx;
   CLI::App app{"scaleproof: weigh-ticket reconciliation and signed weigh-reports for "
@@ -44,6 +55,7 @@ int run(int argc, char** argv) {
   sp::cli::register_export(app, ctx);
   sp::cli::register_check_store(app, ctx);
   sp::cli::register_audit(app, ctx);
+  hide_required_defaults(app);
 
   try {
     app.parse(argc, argv);
