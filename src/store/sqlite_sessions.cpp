@@ -134,6 +134,27 @@ static Session build_session(SqliteStore& store, const Stmt& q, const RigRecord&
   return s;
 }
 
+// The pass whose columns start at `c` in q: p.id, p.kind, p.setting, p.ticket, p.weighed_at,
+// p.steer, p.drive, p.trailer, p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason.
+static Pass read_pass(const Stmt& q, int c) {
+  Pass x;
+  x.id = q.i64(c);
+  x.kind = parse_pass_kind(q.text_view(c + 1)).value_or(PassKind::unhitched);
+  x.setting = q.opt_text(c + 2);
+  x.ticket = q.text(c + 3);
+  x.weighed_at = q.text(c + 4);
+  x.steer = q.f64(c + 5);
+  x.drive = q.f64(c + 6);
+  x.trailer = q.opt_f64(c + 7);
+  x.gross = q.opt_f64(c + 8);
+  x.scale_id = q.opt_text(c + 9);
+  x.entered_by = q.opt_text(c + 10);
+  x.entered_at = q.opt_text(c + 11);
+  x.void_reason = q.opt_text(c + 12);
+  x.voided = x.void_reason.has_value();
+  return x;
+}
+
 Session SqliteStore::load_session(long long session_id) {
   Stmt& q = stmt(std::string(kSessionSql) + "WHERE s.id = ?");
   q.bind(1, session_id);
@@ -156,42 +177,47 @@ Session SqliteStore::load_session(long long session_id) {
       "FROM passes p LEFT JOIN corrections c ON c.pass_id = p.id AND c.action = 'void' "
       "WHERE p.session_id = ? ORDER BY p.id");
   p.bind(1, session_id);
-  while (p.step("reading passes")) {
-    Pass x;
-    x.id = p.i64(0);
-    x.kind = parse_pass_kind(p.text_view(1)).value_or(PassKind::unhitched);
-    x.setting = p.opt_text(2);
-    x.ticket = p.text(3);
-    x.weighed_at = p.text(4);
-    x.steer = p.f64(5);
-    x.drive = p.f64(6);
-    x.trailer = p.opt_f64(7);
-    x.gross = p.opt_f64(8);
-    x.scale_id = p.opt_text(9);
-    x.entered_by = p.opt_text(10);
-    x.entered_at = p.opt_text(11);
-    x.void_reason = p.opt_text(12);
-    x.voided = x.void_reason.has_value();
-    s.passes.push_back(std::move(x));
-  }
+  while (p.step("reading passes")) s.passes.push_back(read_pass(p, 0));
   p.reset();
   return s;
 }
 
 void SqliteStore::for_each_session(const std::function<void(const Session&)>& fn) {
-  // Ids only, streamed in pages so memory does not grow with the number of sessions.
-  long long after = 0;
-  std::vector<long long> page;
-  for (;;) {
-    page.clear();
-    Stmt& q = stmt("SELECT id FROM sessions WHERE id > ? ORDER BY id LIMIT 1024");
-    q.bind(1, after);
-    while (q.step("listing sessions")) page.push_back(q.i64(0));
+  // One statement streams every session with its passes (sessions in id order, each one's
+  // passes in id order): memory holds one session, and no per-session query is prepared or
+  // sorted. SQLite sorts only within a session ("USE TEMP B-TREE FOR RIGHT PART OF ORDER BY").
+  Stmt& q = stmt(
+      "SELECT s.id, s.ref, s.rig_id, s.scale_id, s.station, s.operator, s.owner, s.notes, "
+      "s.length_uncertainty, s.opened_by, s.opened_at, "
+      "p.id, p.kind, p.setting, p.ticket, p.weighed_at, p.steer, p.drive, p.trailer, "
+      "p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason "
+      "FROM sessions s LEFT JOIN passes p ON p.session_id = s.id "
+      "LEFT JOIN corrections c ON c.pass_id = p.id AND c.action = 'void' "
+      "ORDER BY s.id, p.id");
+  constexpr int kPassCol = 11;
+  Session s;
+  bool have = false;
+  try {
+    while (q.step("reading sessions")) {
+      long long id = q.i64(0);
+      if (!have || s.session_id != id) {
+        if (have) fn(s);
+        auto rig = rig_by_id(q.i64(2));
+        auto scale = scale_by_id(q.i64(3));
+        if (!rig || !scale) {
+          throw data_error(fmt::format("session {}: its rig or scale is missing", id));
+        }
+        s = build_session(*this, q, *rig, *scale);
+        have = true;
+      }
+      if (!q.is_null(kPassCol)) s.passes.push_back(read_pass(q, kPassCol));
+    }
+    if (have) fn(s);
+  } catch (...) {
     q.reset();
-    if (page.empty()) return;
-    for (long long id : page) fn(load_session(id));
-    after = page.back();
+    throw;
   }
+  q.reset();
 }
 
 SessionHistory SqliteStore::session_history(long long session_id) {
