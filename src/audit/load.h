@@ -18,6 +18,7 @@
 
 #include "audit/audit.h"
 #include "audit/output.h"
+#include "audit/output_stream.h"
 #include "store/store.h"
 
 namespace sp::audit {
@@ -53,6 +54,16 @@ std::optional<AuditItem> load_session_file(const std::string& path, const std::s
 // Throws sp::Error from the store (no_input for a missing session).
 void load_store_sessions(store::Store& st, const std::string& store_label,
                          std::optional<long long> session_id, const LoadSinks& sinks);
+
+// The store audit with flat memory: every item goes to `writer` as soon as it is final (only
+// sessions holding a ticket that another session also holds, Store::shared_tickets, are kept
+// until the end), and the whole audit is written to `out` (audit/output_stream.h). Output equals
+// audit_text / audit_json of audit_store(...) with `trusted_keys` added. Returns the counts
+// (AuditResult::items empty). Throws as load_store_sessions and AuditStreamWriter do.
+AuditResult audit_store_streamed(store::Store& st, const std::string& store_label,
+                                 std::optional<long long> session_id, const AuditOptions& options,
+                                 const std::vector<std::string>& trusted_keys,
+                                 AuditStreamWriter& writer, std::ostream& out);
 
 // The engine's result for an item's session, or the reason it could not be solved.
 void reconcile_item(AuditItem& item);

@@ -43,6 +43,21 @@ std::vector<std::string> audit_cautions();
 // `max_clean_lines`, then only counted (an audit of a whole store has many).
 std::string audit_text(const AuditReport& report, bool colour, std::size_t max_clean_lines = 50);
 nlohmann::ordered_json audit_json(const AuditReport& report);
+
+// The parts of audit_text and audit_json, for writers that stream the items
+// (audit/output_stream.h); audit_text is head + items + tail, byte for byte.
+// Head: summary line (`items`, `claims`; counts from report.result), limits, keys, unreadable.
+std::string audit_text_head(const AuditReport& report, std::size_t items, std::size_t claims);
+// One item with findings: its heading, counts and findings table.
+std::string audit_text_item(const ItemAudit& item, bool colour);
+// One line of the "No findings" list.
+std::string audit_text_clean_line(const ItemAudit& item);
+// The "No findings" section (`clean_lines` are the first of the `clean` items' lines, in order;
+// listed only when clean <= max_clean_lines) and the cautions.
+std::string audit_text_tail(std::size_t clean, const std::vector<std::string>& clean_lines,
+                            std::size_t max_clean_lines);
+// One element of the document's "items".
+nlohmann::ordered_json audit_json_item(const ItemAudit& item);
 // The audit summary PDF (A4), bytes. Throws sp::Error(internal) when the PDF cannot be made.
 std::string audit_pdf(const AuditReport& report);
 

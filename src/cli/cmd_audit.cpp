@@ -9,6 +9,7 @@
 #include "audit/calendar.h"
 #include "audit/load.h"
 #include "audit/output.h"
+#include "audit/output_stream.h"
 #include "cli/commands.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
@@ -104,6 +105,23 @@ void register_audit(CLI::App& app, Context& ctx) {
     observer.on_skipped = [&ctx](const std::string& path, const std::string& why) {
       if (!ctx.quiet) std::cerr << "scaleproof: skipped " << path << ": " << why << "\n";
     };
+    if (!*paths && o->pdf.empty()) {
+      // Store audit: streamed, so memory stays flat however many sessions the store holds
+      // (the summary PDF needs every item at once and takes the in-memory path below).
+      auto db = open_store(ctx);
+      std::optional<long long> one;
+      if (*session) one = o->session;
+      std::vector<std::string> keys;
+      for (const auto& k : trusted) keys.push_back(k.fingerprint);
+      audit::AuditStreamWriter writer(o->json ? audit::AuditStreamWriter::Format::json
+                                              : audit::AuditStreamWriter::Format::text,
+                                      ctx.colour);
+      const audit::AuditResult counts =
+          audit::audit_store_streamed(*db, resolve_db_path(ctx), one, opt, keys, writer, std::cout);
+      if (o->json) std::cout << "\n";
+      ctx.exit_code = static_cast<int>(counts.errors > 0 ? ExitCode::check_failed : ExitCode::ok);
+      return;
+    }
     audit::AuditReport rep;
     if (*paths) {
       rep = audit::audit_paths(o->paths, trusted, opt, observer);
