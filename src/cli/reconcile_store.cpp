@@ -1,6 +1,7 @@
 #include "cli/reconcile_store.h"
 
 #include <ostream>
+#include <string>
 
 #include <fmt/format.h>
 
@@ -46,6 +47,7 @@ int reconcile_from_store(const Context& ctx, const std::vector<long long>& sessi
     }
     worst = print_reconciled(inputs, ReconcileOutputOptions{json, ctx.colour}, out, err);
   } else {
+    std::string buf;  // one JSON line, reused: no JSON tree per session
     st->for_each_session([&](const Session& s) {
       long long id = s.session_id.value_or(0);
       // A bulk audit reports every session: one the engine refuses must not hide the rest.
@@ -53,10 +55,13 @@ int reconcile_from_store(const Context& ctx, const std::vector<long long>& sessi
       try {
         ReconcileResult r = reconcile(s);
         if (json) {
-          nlohmann::ordered_json line;
-          line["session"] = id;
-          line["result"] = result_to_json(r);
-          out << line.dump() << "\n";
+          // Same bytes as {"session": id, "result": result_to_json(r)}.dump().
+          buf.assign("{\"session\":");
+          buf += std::to_string(id);
+          buf += ",\"result\":";
+          append_result_json(buf, r);
+          buf += "}\n";
+          out << buf;
         } else {
           out << summary_line(id, r);
         }

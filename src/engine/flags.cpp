@@ -44,6 +44,7 @@ void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileRe
     if (m.pass < 0) return m.field;
     return s.passes[static_cast<size_t>(m.pass)].ticket + " " + m.platform;
   };
+  out.measurements.reserve(out.measurements.size() + fit.meas.size());
   for (size_t j = 0; j < fit.meas.size(); ++j) {
     const RigMeasurement& m = fit.meas[j];
     const Eigen::Index jj = static_cast<Eigen::Index>(j);

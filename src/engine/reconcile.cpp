@@ -106,6 +106,7 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
   if (fit.tensioned.empty() && session.trailer.type == TrailerType::conventional)
     out.unsolved.push_back(
         "bar moment and FALR: no tensioned pass; weigh the rig with the bars tensioned");
+  out.tensioned.reserve(fit.tensioned.size());
   for (size_t k = 0; k < fit.tensioned.size(); ++k) {
     const Pass& p = session.passes[static_cast<size_t>(fit.tensioned[k])];
     const int slot = static_cast<int>(k);

@@ -79,14 +79,16 @@ std::optional<Estimate> RigFit::derive(
   const double v = f(sol.x);
   if (!std::isfinite(v)) return std::nullopt;
   Eigen::VectorXd g(n);
+  Eigen::VectorXd xk = sol.x;  // moved one coordinate at a time, then put back
   for (Eigen::Index k = 0; k < n; ++k) {
     // Step: 1e-4 of the parameter's scale (1/|weighted column|, about its standard
     // uncertainty): small against curvature, large against rounding.
     const double h = 1e-4 * sol.col_scale(k);
-    Eigen::VectorXd xp = sol.x, xm = sol.x;
-    xp(k) += h;
-    xm(k) -= h;
-    const double fp = f(xp), fm = f(xm);
+    xk(k) = sol.x(k) + h;
+    const double fp = f(xk);
+    xk(k) = sol.x(k) - h;
+    const double fm = f(xk);
+    xk(k) = sol.x(k);
     if (!std::isfinite(fp) || !std::isfinite(fm)) return std::nullopt;
     g(k) = (fp - fm) / (2 * h);
   }
@@ -180,36 +182,52 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
   }
   r.problem.x0 = x0;
 
+  // The model reads plain per-measurement codes: what it predicts (a platform of a pass kind,
+  // or a tape length) and the moment slot, decided here once rather than per evaluation.
+  struct Row {
+    int what;      // 0 steer, 1 drive, 2 trailer, or -1 - parameter index (tape length)
+    bool hitched;  // hitched or tensioned (else unhitched)
+    int slot;      // moment slot, -1 none
+  };
+  std::vector<Row> rows;
+  rows.reserve(r.meas.size());
+  for (size_t j = 0; j < r.meas.size(); ++j) {
+    const RigMeasurement& mm = r.meas[j];
+    if (mm.pass < 0) {
+      rows.push_back({-1 - (mm.field == "rear_axle_to_ball" ? xO : xL), false, -1});
+      continue;
+    }
+    const int platform = mm.platform == "steer" ? 0 : mm.platform == "drive" ? 1 : 2;
+    rows.push_back({platform, s.passes[static_cast<size_t>(mm.pass)].kind != PassKind::unhitched,
+                    mslot[j]});
+  }
   const double WB = r.wheelbase;
-  const std::vector<RigMeasurement> meas = r.meas;
-  std::vector<PassKind> kinds;
-  for (const auto& mm : meas)
-    kinds.push_back(mm.pass >= 0 ? s.passes[static_cast<size_t>(mm.pass)].kind
-                                 : PassKind::unhitched);
-  r.problem.model = [meas, kinds, mslot, WB](const Eigen::VectorXd& x, Eigen::VectorXd& f,
-                                             Eigen::MatrixXd& J) {
+  r.problem.model = [rows, WB](const Eigen::VectorXd& x, Eigen::VectorXd& f,
+                               Eigen::MatrixXd& J) {
     J.setZero();
     const RigParams p{x(xS0), x(xD0), x(xA0), x(xT), x(xO), x(xL), WB};
-    for (size_t j = 0; j < meas.size(); ++j) {
+    const LoadJacobian lj_unhitched = jacobian_unhitched();
+    const AxleLoads a_unhitched = predict_unhitched(p);
+    for (size_t j = 0; j < rows.size(); ++j) {
       const Eigen::Index jj = static_cast<Eigen::Index>(j);
-      const RigMeasurement& mm = meas[j];
-      if (mm.pass < 0) {
-        const int k = mm.field == "rear_axle_to_ball" ? xO : xL;
+      const Row& rw = rows[j];
+      if (rw.what < 0) {
+        const int k = -1 - rw.what;
         f(jj) = x(k);
         J(jj, k) = 1;
         continue;
       }
-      const int row = mm.platform == "steer" ? 0 : mm.platform == "drive" ? 1 : 2;
-      const double M = mslot[j] >= 0 ? x(xM0 + mslot[j]) : 0.0;
+      const double M = rw.slot >= 0 ? x(xM0 + rw.slot) : 0.0;
       AxleLoads a;
       LoadJacobian lj;
-      if (kinds[j] == PassKind::unhitched) {
-        a = predict_unhitched(p);
-        lj = jacobian_unhitched();
+      if (!rw.hitched) {
+        a = a_unhitched;
+        lj = lj_unhitched;
       } else {
         a = predict_hitched(p, M);
         lj = jacobian_hitched(p, M);
       }
+      const int row = rw.what;
       f(jj) = row == 0 ? a.steer : row == 1 ? a.drive : a.trailer;
       const auto& g = lj[static_cast<size_t>(row)];
       J(jj, xS0) = g[kS0];
@@ -218,7 +236,7 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
       J(jj, xT) = g[kT];
       J(jj, xO) = g[kO];
       J(jj, xL) = g[kL];
-      if (mslot[j] >= 0) J(jj, xM0 + mslot[j]) = g[kM];
+      if (rw.slot >= 0) J(jj, xM0 + rw.slot) = g[kM];
     }
   };
   r.sol = solve_wls(r.problem);

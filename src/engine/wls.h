@@ -5,6 +5,9 @@
 // Gauss-Newton with step halving. Rank-deficient problems are allowed: the solver works on the
 // column-scaled weighted Jacobian through an SVD, takes minimum-norm steps, reports the numerical
 // rank, and `estimable` tells whether a function of x (by its gradient) is determined by the data.
+// When a Householder QR certifies full rank well inside rank_tolerance (the usual case), the
+// step and covariance come from the QR instead: the same least-squares answer, much cheaper;
+// anything not certified takes the SVD, so rank decisions are the SVD's.
 // Tests (Narasimhan & Jordache 2000, ch. 3 and 7): global chi-square test with
 // dof = m - rank; measurement test z_j = |r_j| / sqrt((V_r)_jj), V_r = V - J C J^T, against the
 // Šidák-adjusted two-sided normal critical value.

@@ -12,9 +12,20 @@
 //   compliance [{rating, label, limit, value, u, margin, status}]
 //   travel_pass, unsolved [text]
 // Every u is a standard uncertainty (k = 1).
+//
+// append_result_json writes the same document straight into a string (no JSON tree): the bulk
+// path (`reconcile --all --json`) prints one per session. It must stay byte-identical to
+// result_to_json(r).dump(): numbers go through nlohmann's own float printer, strings take a
+// fast path only when nlohmann would copy them unchanged, and everything else is handed to
+// nlohmann. format_result_test.cpp compares the two on every shape of result.
 #include "format/result_json.h"
 
+#include <algorithm>
+#include <charconv>
 #include <cmath>
+#include <cstdint>
+#include <cstring>
+#include <limits>
 
 #include "format/rounding.h"
 
@@ -139,6 +150,343 @@ ordered_json result_to_json(const ReconcileResult& r) {
   j["travel_pass"] = r.travel_pass.empty() ? ordered_json(nullptr) : ordered_json(r.travel_pass);
   j["unsolved"] = r.unsolved;
   return j;
+}
+
+namespace {
+
+// --- Direct writer ------------------------------------------------------------------------
+// Mirrors nlohmann::basic_json::dump() without indentation: "," and ":" without spaces, floats
+// by nlohmann::detail::to_chars (non-finite: null), integers in plain decimal.
+
+// True when the bytes are well-formed UTF-8 (Unicode 15, Table 3-7: no overlong forms, no
+// surrogates, nothing above U+10FFFF) with no byte below 0x20 and no '"' or '\\': exactly the
+// strings nlohmann's serializer (ensure_ascii = false) copies through unchanged.
+bool copies_verbatim(std::string_view s) {
+  const auto* b = reinterpret_cast<const unsigned char*>(s.data());
+  const size_t n = s.size();
+  size_t i = 0;
+  while (i < n) {
+    const unsigned c = b[i];
+    if (c < 0x80) {
+      if (c < 0x20 || c == '"' || c == '\\') return false;
+      ++i;
+      continue;
+    }
+    auto cont = [&](size_t k, unsigned lo, unsigned hi) {
+      return i + k < n && b[i + k] >= lo && b[i + k] <= hi;
+    };
+    if (c >= 0xC2 && c <= 0xDF) {
+      if (!cont(1, 0x80, 0xBF)) return false;
+      i += 2;
+    } else if (c >= 0xE0 && c <= 0xEF) {
+      const unsigned lo = c == 0xE0 ? 0xA0 : 0x80, hi = c == 0xED ? 0x9F : 0xBF;
+      if (!cont(1, lo, hi) || !cont(2, 0x80, 0xBF)) return false;
+      i += 3;
+    } else if (c >= 0xF0 && c <= 0xF4) {
+      const unsigned lo = c == 0xF0 ? 0x90 : 0x80, hi = c == 0xF4 ? 0x8F : 0xBF;
+      if (!cont(1, lo, hi) || !cont(2, 0x80, 0xBF) || !cont(3, 0x80, 0xBF)) return false;
+      i += 4;
+    } else {
+      return false;
+    }
+  }
+  return true;
+}
+
+void put_string(std::string& o, std::string_view v) {
+  if (copies_verbatim(v)) {
+    o += '"';
+    o.append(v.data(), v.size());
+    o += '"';
+  } else {
+    o += nlohmann::ordered_json(std::string(v)).dump();  // escapes; throws on invalid UTF-8
+  }
+}
+
+void put_string(std::string& o, const std::string& v) {
+  put_string(o, std::string_view(v));
+}
+
+void put_string(std::string& o, const std::optional<std::string>& v) {
+  if (v)
+    put_string(o, *v);
+  else
+    o += "null";
+}
+
+// Appends v = round_to(x, d), 0 <= d <= 3, exactly as nlohmann::detail::to_chars prints it,
+// without running Grisu2, when that is provably the same; returns false (nothing appended)
+// otherwise. Why it is the same: v is the double nearest c = k / 10^d. Grisu2 (Loitsch 2010,
+// as in nlohmann) prints the shortest decimal inside v's rounding interval (v - gap/2,
+// v + gap/2) shrunk by a few units of its 64-bit intermediate (about 2^-9 gap), and among
+// those the one closest to v. When |c - v| <= (1/2 - 1/64) gap, c lies inside that shrunk
+// interval; for |v| < 1e12 the interval (< 2^-13 wide) holds no other multiple of 10^-d, and a
+// decimal with fewer digits would be such a multiple, so Grisu2's digits are c's. Then only
+// nlohmann's layout (format_buffer: exponent outside (-4, 15] goes to the fallback) remains.
+// The error v 10^d - k is computed exactly in long double (64-bit significand; where long
+// double is narrower the fast path is off). p is 10^d.
+// format_result_test.cpp compares this with nlohmann on values of every magnitude.
+bool put_rounded_fast(std::string& o, double v, int d, double p) {
+  if constexpr (std::numeric_limits<long double>::digits < 64) {
+    return false;  // the exactness argument below needs a 64-bit significand
+  } else {
+    if (!(std::fabs(v) < 1e12) || v == 0) return false;
+    const double kd = std::round(v * p);
+    // Exact: v (53 bits) times 10^d (at most 10 bits) fits a 64-bit significand.
+    const long double err = static_cast<long double>(v) * p - kd;
+    const double av = std::fabs(v);
+    std::uint64_t bits;
+    std::memcpy(&bits, &av, sizeof bits);
+    double up, down;  // neighbours of |v| (|v| is normal here: 1e-3 <= |v| < 1e12)
+    const std::uint64_t ub = bits + 1, db = bits - 1;
+    std::memcpy(&up, &ub, sizeof up);
+    std::memcpy(&down, &db, sizeof down);
+    const double gap = std::min(up - av, av - down);
+    if (!(std::fabs(err) <= (0.5L - 1.0L / 64) * gap * p)) return false;
+    unsigned long long k = static_cast<unsigned long long>(std::fabs(kd));
+    if (k == 0) return false;
+    int e10 = -d;
+    while (k % 10 == 0) {
+      k /= 10;
+      ++e10;
+    }
+    char digits[24];
+    const auto res = std::to_chars(digits, digits + sizeof digits, k);
+    const int s = static_cast<int>(res.ptr - digits);
+    const int n = s + e10;  // position of the decimal point
+    if (n > 15 || n <= -4) return false;
+    if (std::signbit(v)) o += '-';
+    if (s <= n) {  // digits[000].0
+      o.append(digits, static_cast<size_t>(s));
+      o.append(static_cast<size_t>(n - s), '0');
+      o += ".0";
+    } else if (n > 0) {  // dig.its
+      o.append(digits, static_cast<size_t>(n));
+      o += '.';
+      o.append(digits + n, static_cast<size_t>(s - n));
+    } else {  // 0.[000]digits
+      o += "0.";
+      o.append(static_cast<size_t>(-n), '0');
+      o.append(digits, static_cast<size_t>(s));
+    }
+    return true;
+  }
+}
+
+void put_number(std::string& o, double v) {
+  if (!std::isfinite(v)) {
+    o += "null";
+    return;
+  }
+  char buf[64];
+  const char* end = nlohmann::detail::to_chars(buf, buf + sizeof buf, v);
+  o.append(buf, static_cast<size_t>(end - buf));
+}
+
+// round_to(v, places) as nlohmann prints it.
+void put_rounded(std::string& o, double v, int places) {
+  static constexpr double kPow10[] = {1, 10, 100, 1000};
+  if (places < 0 || places > 3) {
+    put_number(o, round_to(v, places));
+    return;
+  }
+  // The same operations as format::round_to (std::pow(10, 0..3) is exact), without pow.
+  const double p = kPow10[places];
+  const double r0 = std::round(v * p) / p;
+  const double r = r0 == 0 ? 0.0 : r0;
+  if (!put_rounded_fast(o, r, places, p)) put_number(o, r);
+}
+
+void put_integer(std::string& o, long long v) {
+  char buf[24];
+  const auto res = std::to_chars(buf, buf + sizeof buf, v);
+  o.append(buf, static_cast<size_t>(res.ptr - buf));
+}
+
+void put_bool(std::string& o, bool v) {
+  o += v ? "true" : "false";
+}
+
+void put_est(std::string& o, const Estimate& e, int places) {
+  o += "{\"value\":";
+  put_rounded(o, e.value, places);
+  o += ",\"u\":";
+  put_rounded(o, e.u, places);
+  o += '}';
+}
+
+void put_est(std::string& o, const std::optional<Estimate>& e, int places) {
+  if (e)
+    put_est(o, *e, places);
+  else
+    o += "null";
+}
+
+void put_length(std::string& o, const std::optional<LengthEstimate>& e, int places) {
+  if (!e) {
+    o += "null";
+    return;
+  }
+  o += "{\"value\":";
+  put_rounded(o, e->value, places);
+  o += ",\"u\":";
+  put_rounded(o, e->u, places);
+  o += ",\"entered\":";
+  put_rounded(o, e->entered, places);
+  o += '}';
+}
+
+void put_target(std::string& o, const TargetResult& t, const Places& p) {
+  o += "{\"falr\":";
+  put_rounded(o, t.falr, p.percent);
+  o += ",\"falr_from_rig\":";
+  put_bool(o, t.falr_from_rig);
+  o += ",\"bar_moment\":";
+  put_est(o, t.bar_moment, p.moment);
+  o += ",\"setting\":";
+  put_est(o, t.setting, 2);  // as target_json
+  o += ",\"steer\":";
+  put_est(o, t.steer, p.weight);
+  o += ",\"drive\":";
+  put_est(o, t.drive, p.weight);
+  o += ",\"trailer\":";
+  put_est(o, t.trailer, p.weight);
+  o += ",\"ball_load\":";
+  put_est(o, t.ball_load, p.weight);
+  o += ",\"note\":";
+  put_string(o, t.note);
+  o += '}';
+}
+
+void put_flag(std::string& o, const Flag& f, const Places& p) {
+  o += "{\"code\":";
+  put_string(o, f.code);
+  o += ",\"severity\":";
+  put_string(o, to_string(f.severity));
+  o += ",\"message\":";
+  put_string(o, f.message);
+  if (f.ticket) {
+    o += ",\"ticket\":";
+    put_string(o, *f.ticket);
+  }
+  if (f.platform) {
+    o += ",\"platform\":";
+    put_string(o, *f.platform);
+  }
+  if (f.field) {
+    o += ",\"field\":";
+    put_string(o, *f.field);
+  }
+  if (f.needed) {
+    o += ",\"needed\":";
+    put_rounded(o, *f.needed, f.field ? p.length : p.weight);
+  }
+  o += '}';
+}
+
+void put_tensioned(std::string& o, const TensionedResult& t, const Places& p) {
+  o += "{\"ticket\":";
+  put_string(o, t.ticket);
+  o += ",\"setting\":";
+  put_string(o, t.setting);
+  o += ",\"bar_moment\":";
+  put_est(o, t.bar_moment, p.moment);
+  o += ",\"ball_load\":";
+  put_est(o, t.ball_load, p.weight);
+  o += ",\"falr\":";
+  put_est(o, t.falr, p.percent);
+  o += ",\"steer\":";
+  put_est(o, t.steer, p.weight);
+  o += ",\"drive\":";
+  put_est(o, t.drive, p.weight);
+  o += ",\"trailer\":";
+  put_est(o, t.trailer, p.weight);
+  o += '}';
+}
+
+void put_compliance(std::string& o, const ComplianceRow& c, const Places& p) {
+  o += "{\"rating\":";
+  put_string(o, c.rating);
+  o += ",\"label\":";
+  put_string(o, c.label);
+  o += ",\"limit\":";
+  put_rounded(o, c.limit, p.weight);
+  o += ",\"value\":";
+  put_rounded(o, c.value, p.weight);
+  o += ",\"u\":";
+  put_rounded(o, c.u, p.weight);
+  o += ",\"margin\":";
+  put_rounded(o, c.margin, p.weight);
+  o += ",\"status\":";
+  put_string(o, to_string(c.status));
+  o += '}';
+}
+
+template <typename T, typename Put>
+void put_array(std::string& o, const std::vector<T>& items, Put put) {
+  o += '[';
+  for (size_t i = 0; i < items.size(); ++i) {
+    if (i) o += ',';
+    put(items[i]);
+  }
+  o += ']';
+}
+
+}  // namespace
+
+void append_result_json(std::string& o, const ReconcileResult& r) {
+  const Places p = places_for(r.units);
+  o += "{\"units\":{\"weight\":";
+  put_string(o, to_string(r.units.weight));
+  o += ",\"length\":";
+  put_string(o, to_string(r.units.length));
+  o += "},\"moment_unit\":";
+  put_string(o, r.moment_unit);
+  o += ",\"tongue_load\":";
+  put_est(o, r.tongue_load, p.weight);
+  o += ",\"trailer_weight\":";
+  put_est(o, r.trailer_weight, p.weight);
+  o += ",\"tongue_percent\":";
+  put_est(o, r.tongue_percent, p.percent);
+  o += ",\"rear_axle_to_ball\":";
+  put_length(o, r.rear_axle_to_ball, p.length);
+  o += ",\"ball_to_axle\":";
+  put_length(o, r.ball_to_axle, p.length);
+  o += ",\"tensioned\":";
+  put_array(o, r.tensioned, [&](const TensionedResult& t) { put_tensioned(o, t, p); });
+  o += ",\"target\":";
+  if (r.target)
+    put_target(o, *r.target, p);
+  else
+    o += "null";
+  o += ",\"fit\":";
+  if (r.fit) {
+    o += "{\"chi_square\":";
+    put_rounded(o, r.fit->chi_square, 3);
+    o += ",\"dof\":";
+    put_integer(o, r.fit->dof);
+    o += ",\"p_value\":";
+    put_number(o, significant(r.fit->p_value, 4));
+    o += ",\"critical\":";
+    put_rounded(o, r.fit->critical, 3);
+    o += ",\"passed\":";
+    put_bool(o, r.fit->passed);
+    o += '}';
+  } else {
+    o += "null";
+  }
+  o += ",\"flags\":";
+  put_array(o, r.flags, [&](const Flag& f) { put_flag(o, f, p); });
+  o += ",\"compliance\":";
+  put_array(o, r.compliance, [&](const ComplianceRow& c) { put_compliance(o, c, p); });
+  o += ",\"travel_pass\":";
+  if (r.travel_pass.empty())
+    o += "null";
+  else
+    put_string(o, r.travel_pass);
+  o += ",\"unsolved\":";
+  put_array(o, r.unsolved, [&](const std::string& u) { put_string(o, u); });
+  o += '}';
 }
 
 }  // namespace sp

@@ -6,7 +6,12 @@
 //   plus unsolved[] and moment_unit. Unsolved quantities are JSON null, never NaN.
 // session_to_json: the session-file object (the same document write_session_json prints).
 // Both are deterministic: the same input gives the same bytes from .dump().
+// append_result_json: appends exactly result_to_json(result).dump() (compact) to `out`, without
+// building a JSON tree (the bulk `reconcile --all --json` path). Throws what dump() throws
+// (nlohmann::json::type_error on a string that is not UTF-8).
 #pragma once
+#include <string>
+
 #include <nlohmann/json.hpp>
 
 #include "core/model.h"
@@ -16,5 +21,6 @@ namespace sp {
 
 nlohmann::ordered_json result_to_json(const ReconcileResult& result);
 nlohmann::ordered_json session_to_json(const Session& session);
+void append_result_json(std::string& out, const ReconcileResult& result);
 
 }  // namespace sp

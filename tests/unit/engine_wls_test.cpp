@@ -116,3 +116,37 @@ TEST_CASE("rank-deficient problem: rank, dof and estimability") {
   CHECK(t.checkable == 2);
   CHECK(t.z[2] < 0);
 }
+
+TEST_CASE("QR fast path and SVD path agree on full-rank problems; near-rank cases go to the SVD") {
+  // The solver takes a Householder QR when it can certify full rank and the SVD otherwise
+  // (wls.cpp). A rank_tolerance of 1e-3 makes certification impossible (the bound would have to
+  // exceed 1), so the same problem solved twice compares the two paths (common practice:
+  // cross-check two factorizations of one least-squares problem).
+  Eigen::MatrixXd A(6, 3);
+  A << 1, 0, 0, 0, 1, 0, 0, 0, 1, 1, 1, 0, 0, 1, 1, 1, 0.5, 2;
+  Eigen::VectorXd y(6);
+  y << 10.2, 20.1, 29.7, 30.4, 49.6, 80.9;
+  WlsProblem p = linear_problem(A, y);
+  p.sigma << 1, 2, 1, 0.5, 1, 3;
+  WlsOptions svd_only;
+  svd_only.rank_tolerance = 1e-3;
+  const WlsSolution q = solve_wls(p), s = solve_wls(p, svd_only);
+  CHECK(q.rank == 3);
+  CHECK(s.rank == 3);
+  CHECK(q.null_basis.cols() == 0);
+  CHECK((q.x - s.x).norm() <= 1e-12 * s.x.norm());
+  CHECK((q.cov - s.cov).norm() <= 1e-12 * s.cov.norm());
+  CHECK((q.leverage - s.leverage).norm() <= 1e-12);
+  CHECK(q.chi_square == doctest::Approx(s.chi_square).epsilon(1e-12));
+  CHECK(q.leverage.sum() == doctest::Approx(3));  // trace of the hat matrix = rank
+
+  // Two nearly parallel columns: sigma ratio ~1e-8 is still rank 2 by the SVD's 1e-9
+  // cut-off, ~1e-12 is rank 1; neither is certified by the QR bound, so both go to the SVD.
+  for (const double eps : {1e-8, 1e-12}) {
+    CAPTURE(eps);
+    Eigen::MatrixXd B(3, 2);
+    B << 1, 1, 1, 1 + eps, 1, 1 - eps;
+    const WlsSolution n = solve_wls(linear_problem(B, Eigen::Vector3d(2, 2, 2)));
+    CHECK(n.rank == (eps > 1e-10 ? 2 : 1));
+  }
+}

@@ -1,6 +1,10 @@
 // Result rendering (JSON and text) on hand-built engine results.
 #include <doctest/doctest.h>
 
+#include <cmath>
+#include <random>
+
+#include "engine/reconcile.h"
 #include "format/result_json.h"
 #include "format/result_text.h"
 #include "format/session_json.h"
@@ -187,4 +191,96 @@ TEST_CASE("every flag code of issue #2 has a plain-language explanation") {
     CHECK(!sp::explain_flag(code).empty());
   }
   CHECK(sp::explain_flag("no-such-code").empty());
+}
+
+TEST_CASE("append_result_json writes exactly the bytes of result_to_json().dump()") {
+  // The bulk writer must not drift from the JSON tree: signed reports embed result_to_json.
+  std::vector<sp::ReconcileResult> cases;
+  cases.push_back(solved_result());
+  cases.push_back(sp::reconcile(sp::parse_session_json(kSession, "rig.json")));
+  sp::ReconcileResult empty;  // nothing solved: nulls and empty arrays
+  empty.moment_unit = "lbf·ft";
+  empty.unsolved = {"tongue load: no unhitched pass", "trailer weight: no hitched pass"};
+  cases.push_back(empty);
+  sp::ReconcileResult odd = solved_result();  // strings nlohmann must escape or reject-test
+  odd.units = {sp::WeightUnit::kg, sp::LengthUnit::mm};
+  odd.moment_unit = "N·m";
+  odd.travel_pass = "Q\"1\\2\t3\n\x01\x1f\x7f é ± 𝄞";
+  odd.tensioned[0].ticket = odd.travel_pass;
+  odd.tensioned[0].setting.reset();
+  odd.tensioned[0].ball_load.reset();
+  odd.tensioned[0].bar_moment = {-0.04, 1e-7};  // rounds to 0 (no "-0")
+  odd.tongue_load = sp::Estimate{1e17, 123456789.123};  // nlohmann's exponent form
+  odd.tongue_percent = sp::Estimate{std::nan(""), INFINITY};  // never from the engine: null
+  odd.target->setting = sp::Estimate{3.456, 0.0049};
+  odd.target->note.reset();
+  odd.fit = sp::FitResult{123456.78901, 0, 1.234567e-12, 0, 0.05, false};
+  sp::Flag g;
+  g.code = "geometry-mismatch";
+  g.severity = sp::Severity::error;
+  g.message = "ball_to_axle: the tape length 190 in does not fit (± 2 in)";
+  g.field = "ball_to_axle";
+  g.needed = 201.456;
+  odd.flags.push_back(g);
+  sp::Flag n = g;
+  n.code = "inconsistent-reading";
+  n.field.reset();
+  n.ticket = "A-3";
+  n.platform = "steer";
+  n.needed = 4123.456;
+  odd.flags.push_back(n);
+  odd.unsolved = {"", "x"};
+  cases.push_back(odd);
+  for (const sp::LengthUnit lu : {sp::LengthUnit::in, sp::LengthUnit::ft, sp::LengthUnit::cm,
+                                  sp::LengthUnit::m}) {
+    sp::ReconcileResult r = solved_result();
+    r.units.length = lu;
+    cases.push_back(r);
+  }
+  for (size_t i = 0; i < cases.size(); ++i) {
+    CAPTURE(i);
+    std::string out = "prefix:";
+    sp::append_result_json(out, cases[i]);
+    CHECK(out == "prefix:" + sp::result_to_json(cases[i]).dump());
+  }
+  // Not UTF-8: both refuse alike.
+  sp::ReconcileResult bad = solved_result();
+  bad.travel_pass = "A-\xff";
+  std::string out;
+  CHECK_THROWS_AS(sp::append_result_json(out, bad), nlohmann::json::type_error);
+  CHECK_THROWS_AS(sp::result_to_json(bad).dump(), nlohmann::json::type_error);
+}
+
+TEST_CASE("append_result_json prints rounded numbers exactly as nlohmann does, at every magnitude") {
+  // The writer prints most rounded numbers without Grisu2 (result_json.cpp explains why the
+  // digits are the same); this sweeps magnitudes, grid-adjacent values, powers of two and
+  // every unit's decimals against nlohmann's own printer (common practice: differential test).
+  std::mt19937_64 rng(20261201);
+  std::uniform_real_distribution<double> mag(-5, 13), u01(0, 1);
+  const sp::LengthUnit lengths[] = {sp::LengthUnit::in, sp::LengthUnit::ft, sp::LengthUnit::mm,
+                                    sp::LengthUnit::cm, sp::LengthUnit::m};
+  auto draw = [&](int i) {
+    switch (i % 4) {
+      case 0: return std::pow(10.0, mag(rng)) * (u01(rng) < 0.5 ? -1 : 1);
+      case 1: return std::floor(u01(rng) * 200000) / 20.0 + (u01(rng) - 0.5) * 1e-9;
+      case 2: return (std::floor(u01(rng) * 2e6) - 1e6) / 1000.0;
+      default: return std::ldexp(1.0, static_cast<int>(u01(rng) * 70) - 25);
+    }
+  };
+  for (int i = 0; i < 3000; ++i) {
+    sp::ReconcileResult r = solved_result();
+    r.units.length = lengths[i % 5];
+    r.tongue_load = sp::Estimate{draw(i), draw(i + 1)};
+    r.tongue_percent = sp::Estimate{draw(i + 2), draw(i + 3)};
+    r.rear_axle_to_ball = sp::LengthEstimate{draw(i), draw(i + 1), draw(i + 2)};
+    r.tensioned[0].bar_moment = {draw(i + 3), draw(i)};
+    r.fit->chi_square = draw(i + 1);
+    r.fit->critical = draw(i + 2);
+    r.compliance[0].margin = draw(i + 3);
+    std::string out;
+    sp::append_result_json(out, r);
+    const std::string want = sp::result_to_json(r).dump();
+    CAPTURE(i);
+    if (out != want) CHECK(out == want);  // one line per mismatch, not 3000 passing checks
+  }
 }
