@@ -148,7 +148,9 @@ long long RowBuilder::append(std::string_view what) {
 // ---- open, migrations, transactions ------------------------------------------------------
 
 SqliteStore::SqliteStore(const std::string& path, const Options& options)
-    : db_(path, options.create, options.busy_timeout_ms) {
+    : db_(path, options.create, options.busy_timeout_ms),
+      busy_timeout_ms_(options.busy_timeout_ms),
+      parallel_check_rows_(options.parallel_check_rows) {
   migrate(options.create);
 }
 

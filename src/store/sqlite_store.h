@@ -124,8 +124,11 @@ class SqliteStore final : public Store {
   const SessionCtx& session_ctx(long long session_id);
   RowBuilder& bind_pass(RowBuilder& b, long long session_id, const Pass& pass);
   void clear_caches();
+  std::optional<ChainCheck> check_chain_halves(const std::function<void(long long)>& progress);
 
   Db db_;
+  int busy_timeout_ms_;
+  long long parallel_check_rows_;
   bool in_write_ = false;
   bool in_txn_ = false;
   std::string now_;

@@ -191,6 +191,10 @@ struct Options {
   // 5 s: long enough for another operator's single command to commit (a pass add is ~1 ms),
   // short enough that a stuck process is reported instead of hanging (common practice).
   int busy_timeout_ms = 5000;
+  // check_chain walks chains of at least this many rows in two halves on two threads (0: never).
+  // Below ~100 000 rows the second connection's set-up costs about what it saves
+  // (bench/README.md, item 3); tests set it low to run the two-thread path on small stores.
+  long long parallel_check_rows = 100000;
 };
 
 // Opens the SQLite store at `path` (":memory:" for tests). Applies pending migrations when

@@ -21,12 +21,14 @@ using namespace sp::store;
 struct TempStore {
   std::string dir, path;
   std::unique_ptr<Store> store;
-  TempStore() {
+  // parallel_check_rows: see Options (tests pass 2 to run check_chain's two-thread path).
+  explicit TempStore(long long parallel_check_rows = Options{}.parallel_check_rows) {
     char tmpl[] = "/tmp/sp-store-test-XXXXXX";
     dir = mkdtemp(tmpl);
     path = dir + "/store.db";
     Options o;
     o.create = true;
+    o.parallel_check_rows = parallel_check_rows;
     store = open_sqlite_store(path, o);
   }
   ~TempStore() {

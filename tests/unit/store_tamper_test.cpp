@@ -39,6 +39,8 @@ TEST_CASE("check_chain finds each kind of tampering at the first bad row") {
        "UPDATE sessions SET seq = 60 WHERE id = 1; UPDATE scales SET seq = 6 WHERE id = 1; "
        "UPDATE sessions SET seq = 1 WHERE id = 1;",
        "sessions", 1, std::nullopt, "does not match"},
+      {"a row slipped in before the chain's start", "UPDATE passes SET id = -5 WHERE id = 9",
+       "passes", -5, "A-1003", "outside the chain"},
       {"forge a hash", "UPDATE passes SET hash = zeroblob(32) WHERE id = 8", "passes", 8,
        "A-1002", "does not match"},
       {"edit and recompute the row's own hash (the next row's link breaks)",
@@ -47,10 +49,14 @@ TEST_CASE("check_chain finds each kind of tampering at the first bad row") {
       {"edit a time", "UPDATE passes SET weighed_at = '2026-11-03T09:15:00-06:00' WHERE id = 9",
        "passes", 9, "A-1003", "does not match"},
   };
+  // Each case on the one-thread walk (0) and on the two-half walk (2: any chain of 2 rows or
+  // more), which must fall back and name the same row in the same words.
+  for (long long parallel : {0LL, 2LL})
   for (const Row& r : rows) {
     std::string what = r.what;
     CAPTURE(what);
-    TempStore ts;
+    CAPTURE(parallel);
+    TempStore ts(parallel);
     long long s = seed_session(*ts.store);
     add_demo_passes(*ts.store, s);
     auto clean = ts.store->check_chain({});
@@ -96,4 +102,31 @@ TEST_CASE("a forged hash that fits its own row breaks the next row's link") {
   CHECK(c.table == "passes");
   CHECK((c.id == 8 || c.id == 9));
   if (c.id == 9) CHECK(c.problem.find("previous row") != std::string::npos);
+}
+
+// Guards the two-half walk of check_chain: on an intact chain it reports what the one-thread
+// walk reports (rows and head), for chains of odd and even length.
+TEST_CASE("check_chain in two halves agrees with one walk") {
+  for (int extra : {0, 1}) {
+    CAPTURE(extra);
+    TempStore ts(2);
+    long long s = seed_session(*ts.store);
+    add_demo_passes(*ts.store, s);
+    if (extra != 0) {
+      ts.store->begin_write();
+      ts.store->add_pass(s, make_pass(PassKind::tensioned, "A-1004", 4480, 4740, 6280, "5"));
+      ts.store->commit();
+    }
+    Options one;
+    one.parallel_check_rows = 0;
+    auto single = open_sqlite_store(ts.path, one);
+    ChainCheck a = ts.store->check_chain({});
+    ChainCheck b = single->check_chain({});
+    CHECK(a.ok);
+    CHECK(b.ok);
+    CHECK(a.rows == b.rows);
+    CHECK(a.rows == 9 + extra);
+    CHECK(a.head == b.head);
+    CHECK(a.head == ts.store->head_hash());
+  }
 }
