@@ -213,6 +213,7 @@ std::optional<ChainCheck> SqliteStore::check_chain_halves(
     return std::nullopt;
   }
   second.rows = rows;
+  second.walkers = 2;
   return second;
 }
 

@@ -56,7 +56,7 @@ RowBuilder::RowBuilder(SqliteStore& s, const char* table, Stmt& batch, int row, 
     throw Error(ExitCode::internal, fmt::format("{}: batch rows need id = seq", table));
   }
   seq_ = id_ = seq;
-  int base = row * (w_->first_col_param - 1 + static_cast<int>(w_->desc->columns.size()));
+  int base = row * w_->params_per_row;
   st_->bind(base + 1, id_);
   hash_param_ = base + w_->hash_param;
   param_ = base + w_->first_col_param;
@@ -291,10 +291,12 @@ Writer& SqliteStore::writer(const char* table) {
     cols += c.name;
     ++n;
   }
-  std::string params = "?";
-  for (int k = 1; k < n; ++k) params += ", ?";
-  w.insert = std::make_unique<Stmt>(
-      db_, fmt::format("INSERT INTO {} ({}) VALUES ({})", table, cols, params));
+  w.params_per_row = n;
+  w.values_head = fmt::format("INSERT INTO {} ({}) VALUES ", table, cols);
+  w.tuple = "(?";
+  for (int k = 1; k < n; ++k) w.tuple += ", ?";
+  w.tuple += ")";
+  w.insert = std::make_unique<Stmt>(db_, w.values_head + w.tuple);
   return writers_.emplace(table, std::move(w)).first->second;
 }
 
@@ -302,11 +304,8 @@ Stmt& SqliteStore::batch_insert(const char* table, size_t rows) {
   Writer& w = writer(table);
   if (w.batch.size() <= rows) w.batch.resize(rows + 1);
   if (w.batch[rows]) return *w.batch[rows];
-  // The single-row INSERT's text, its VALUES tuple repeated: same columns, same order.
-  std::string sql = sqlite3_sql(w.insert->handle());
-  auto open = sql.find("VALUES (");
-  std::string tuple = sql.substr(open + 7);
-  for (size_t k = 1; k < rows; ++k) sql += ", " + tuple;
+  std::string sql = w.values_head + w.tuple;  // the single-row INSERT, its tuple repeated
+  for (size_t k = 1; k < rows; ++k) sql += ", " + w.tuple;
   w.batch[rows] = std::make_unique<Stmt>(db_, sql);
   return *w.batch[rows];
 }

@@ -56,6 +56,9 @@ struct Writer {
   int first_col_param = 0;  // parameter index of the first chained column
   int hash_param = 0;
   long long next_id = 0;    // 0: not read yet in this transaction
+  int params_per_row = 0;   // id[, seq], hash and the chained columns
+  std::string values_head;  // "INSERT INTO t (id, ..., col) VALUES "
+  std::string tuple;        // "(?, ?, ...)": one row's parameters
   std::vector<std::unique_ptr<Stmt>> batch;  // [n]: INSERT of n rows (see batch_insert)
 };
 

@@ -117,6 +117,7 @@ struct ChainCheck {
   long long seq = 0;
   std::optional<std::string> ticket;
   std::string problem;      // what does not match, in plain words
+  int walkers = 1;          // threads that walked the chain (2: the two-half walk answered)
 };
 
 class Store {
@@ -192,8 +193,9 @@ struct Options {
   // short enough that a stuck process is reported instead of hanging (common practice).
   int busy_timeout_ms = 5000;
   // check_chain walks chains of at least this many rows in two halves on two threads (0: never).
-  // Below ~100 000 rows the second connection's set-up costs about what it saves
-  // (bench/README.md, item 3); tests set it low to run the two-thread path on small stores.
+  // Chosen, not tuned: smaller chains take a fraction of a second on one thread, and at
+  // 125 000 rows two threads measured 1.8x (bench/README.md, item 3). Tests set it low to run
+  // the two-thread path on small stores.
   long long parallel_check_rows = 100000;
 };
 

@@ -71,6 +71,7 @@ TEST_CASE("check_chain finds each kind of tampering at the first bad row") {
     CHECK(c.id == r.id);
     CHECK(c.ticket == r.ticket);
     CHECK(c.problem.find(r.problem) != std::string::npos);
+    CHECK(c.walkers == 1);  // findings always come from the one-thread walk
   }
 }
 
@@ -128,5 +129,7 @@ TEST_CASE("check_chain in two halves agrees with one walk") {
     CHECK(a.rows == 9 + extra);
     CHECK(a.head == b.head);
     CHECK(a.head == ts.store->head_hash());
+    CHECK(a.walkers == 2);  // the two-half walk answered, not its fallback
+    CHECK(b.walkers == 1);
   }
 }
