@@ -14,4 +14,7 @@ struct File {
 const std::vector<File>& schema_files();
 // reports/*.json: the weigh-report's wording, cautions and layout data.
 const std::vector<File>& report_files();
+// The report's faces cut down to WinAnsiEncoding (cmake/fonts.cmake): DejaVuSans.ttf,
+// DejaVuSans-Bold.ttf, DejaVuSansMono.ttf.
+const std::vector<File>& font_files();
 }  // namespace sp::embedded

@@ -15,7 +15,9 @@
 #include <cstdio>
 #include <cstdlib>
 
+#include "core/embedded.h"
 #include "core/error.h"
+#include "report/winansi.h"
 
 namespace sp::report {
 namespace {
@@ -72,11 +74,18 @@ class HpdfDocument : public PdfDocument {
     if (pdf_ == nullptr) throw Error(ExitCode::internal, "libharu: cannot create a document");
     HPDF_SetCompressionMode(pdf_, HPDF_COMP_ALL);
     HPDF_UseUTFEncodings(pdf_);
-    HPDF_SetCurrentEncoder(pdf_, "UTF-8");
+    HPDF_SetCurrentEncoder(pdf_, "UTF-8");  // document info strings are UTF-8 too
     check("setting up UTF-8");
-    fonts_[0] = load_font(font_dir + "/DejaVuSans.ttf");
-    fonts_[1] = load_font(font_dir + "/DejaVuSans-Bold.ttf");
-    fonts_[2] = load_font(font_dir + "/DejaVuSansMono.ttf");
+    // Each face is checked now (a missing font fails before anything is drawn) but read and
+    // embedded only when a string first needs it.
+    const char* files[3] = {"/DejaVuSans.ttf", "/DejaVuSans-Bold.ttf", "/DejaVuSansMono.ttf"};
+    for (int i = 0; i < 3; ++i) {
+      faces_[i].path = font_dir + files[i];
+      struct stat st {};
+      if (::stat(faces_[i].path.c_str(), &st) != 0) {
+        throw Error(ExitCode::no_input, faces_[i].path + ": font not found (Debian package fonts-dejavu-core)");
+      }
+    }
   }
   ~HpdfDocument() override {
     HPDF_Free(pdf_);
@@ -95,21 +104,24 @@ class HpdfDocument : public PdfDocument {
 
   void text(float x, float y, std::string_view utf8, float size, Font font, float grey) override {
     need_page();
-    std::string s(utf8);
     HPDF_Page_SetGrayFill(page_, grey);
-    HPDF_Page_BeginText(page_);
-    HPDF_Page_SetFontAndSize(page_, fonts_[index(font)], size);
-    HPDF_Page_TextOut(page_, x, y, s.c_str());
-    HPDF_Page_EndText(page_);
+    for (const TextRun& run : split_winansi_runs(utf8)) {
+      if (run.kind != TextRun::Kind::gap) {
+        HPDF_Page_BeginText(page_);
+        HPDF_Page_SetFontAndSize(page_, font_for(font, run), size);
+        HPDF_Page_TextOut(page_, x, y, run.bytes.c_str());
+        HPDF_Page_EndText(page_);
+      }
+      x += run_width(font, run, size);
+    }
     HPDF_Page_SetGrayFill(page_, 0);
     check("writing text");
   }
 
   float text_width(std::string_view utf8, float size, Font font) override {
     need_page();
-    std::string s(utf8);
-    HPDF_Page_SetFontAndSize(page_, fonts_[index(font)], size);
-    float w = HPDF_Page_TextWidth(page_, s.c_str());
+    float w = 0;
+    for (const TextRun& run : split_winansi_runs(utf8)) w += run_width(font, run, size);
     check("measuring text");
     return w;
   }
@@ -158,14 +170,7 @@ class HpdfDocument : public PdfDocument {
     if (name.empty() || name.find('/') != std::string::npos || name[0] == '.') {
       throw Error(ExitCode::internal, "PDF attachment: expected a bare file name, got '" + name + "'");
     }
-    make_temp();
-    std::string path = temp_dir_ + "/" + name;
-    std::FILE* f = std::fopen(path.c_str(), "wb");
-    if (f == nullptr || std::fwrite(bytes.data(), 1, bytes.size(), f) != bytes.size() ||
-        std::fclose(f) != 0) {
-      throw Error(ExitCode::io_error, path + ": cannot write a temporary attachment");
-    }
-    temp_files_.push_back(path);
+    write_temp(name, bytes, "attachment");
     // The reader opens the file now and reads it when the document is saved.
     int here = ::open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
     if (here < 0 || ::chdir(temp_dir_.c_str()) != 0) {
@@ -216,6 +221,12 @@ class HpdfDocument : public PdfDocument {
   }
 
  private:
+  struct Face {
+    std::string path;
+    HPDF_Font single = nullptr;  // WinAnsiEncoding
+    HPDF_Font utf8 = nullptr;    // UTF-8, Type0
+  };
+
   static int index(Font f) { return f == Font::regular ? 0 : f == Font::bold ? 1 : 2; }
 
   void check(const std::string& what) {
@@ -257,16 +268,66 @@ class HpdfDocument : public PdfDocument {
     }
     HPDF_Page_SetGrayFill(page_, 0);
   }
-  HPDF_Font load_font(const std::string& path) {
-    struct stat st {};
-    if (::stat(path.c_str(), &st) != 0) {
-      throw Error(ExitCode::no_input, path + ": font not found (Debian package fonts-dejavu-core)");
+  // The font that draws `run` in face `font`. WinAnsi runs use a simple TrueType font made
+  // from the face's compiled-in WinAnsi subset, other runs the full face from font_dir as a
+  // UTF-8 (Type0, Identity-H) font; each is made on first use. Why: libharu builds a Type0
+  // font's code-to-glyph map by a linear cmap search for each of the 65 536 BMP code points,
+  // and reads, copies and deflates every table of an embedded face; the two made four fifths of
+  // a report's time (bench/README.md). The report's own wording fits WinAnsi; names and places
+  // may not, and those still draw with the full face.
+  HPDF_Font font_for(Font font, const TextRun& run) {
+    Face& face = faces_[index(font)];
+    if (run.kind == TextRun::Kind::unicode) {
+      if (face.utf8 == nullptr) face.utf8 = get_font(load(face.path), "UTF-8", face.path);
+      return face.utf8;
     }
+    if (face.single == nullptr) {
+      // The face's WinAnsi subset compiled into the binary (cmake/fonts.cmake). libharu
+      // loads fonts from files only, so it goes through the private temporary folder; the
+      // name starts with '.', which no attachment may, so the two never collide.
+      const std::string file = face.path.substr(face.path.rfind('/') + 1);
+      std::string_view bytes;
+      for (const auto& f : embedded::font_files()) {
+        if (f.name == file) bytes = f.contents;
+      }
+      if (bytes.empty()) throw Error(ExitCode::internal, file + ": no WinAnsi subset compiled in");
+      face.single = get_font(load(write_temp("." + file, bytes, "font")), "WinAnsiEncoding", file);
+    }
+    return face.single;
+  }
+  const char* load(const std::string& path) {
     const char* name = HPDF_LoadTTFontFromFile(pdf_, path.c_str(), HPDF_TRUE);
     check("loading font " + path);
-    HPDF_Font f = HPDF_GetFont(pdf_, name, "UTF-8");
-    check("selecting font " + path);
+    return name;
+  }
+  HPDF_Font get_font(const char* name, const char* encoding, const std::string& what) {
+    HPDF_Font f = HPDF_GetFont(pdf_, name, encoding);
+    check("selecting font " + what + " (" + encoding + ")");
     return f;
+  }
+  // Advance of `run` in points. A gap is the width the face gives its space character (read
+  // from the font's metrics by code point, which needs no UTF-8 font).
+  float run_width(Font font, const TextRun& run, float size) {
+    HPDF_Font f = font_for(font, run);
+    if (run.kind == TextRun::Kind::gap) {
+      return static_cast<float>(HPDF_Font_GetUnicodeWidth(f, static_cast<HPDF_UNICODE>(run.code_point))) * size /
+             1000.0f;
+    }
+    HPDF_Page_SetFontAndSize(page_, f, size);
+    return HPDF_Page_TextWidth(page_, run.bytes.c_str());
+  }
+  // Writes `bytes` to `name` in the private temporary folder (removed by remove_temp).
+  std::string write_temp(const std::string& name, std::string_view bytes, const char* what) {
+    make_temp();
+    std::string path = temp_dir_ + "/" + name;
+    std::FILE* f = std::fopen(path.c_str(), "wb");
+    if (f == nullptr || std::fwrite(bytes.data(), 1, bytes.size(), f) != bytes.size() ||
+        std::fclose(f) != 0) {
+      if (f != nullptr) temp_files_.push_back(path);
+      throw Error(ExitCode::io_error, path + ": cannot write a temporary " + what);
+    }
+    temp_files_.push_back(path);
+    return path;
   }
   void make_temp() {
     if (!temp_dir_.empty()) return;
@@ -287,7 +348,7 @@ class HpdfDocument : public PdfDocument {
   HpdfErrorState err_;
   HPDF_Doc pdf_ = nullptr;
   HPDF_Page page_ = nullptr;
-  HPDF_Font fonts_[3] = {nullptr, nullptr, nullptr};
+  Face faces_[3];
   std::string temp_dir_;
   std::vector<std::string> temp_files_;
 };

@@ -1,8 +1,11 @@
 // A small PDF writing surface, implemented with libharu (make_pdf_document).
 //
 // Coordinates are PDF points (1/72 in), origin at the bottom-left of the page, y up.
-// Text is UTF-8, drawn with DejaVu Sans (regular / bold / mono) embedded as TTF subsets
-// (fonts-dejavu-core, /usr/share/fonts/truetype/dejavu/); characters outside the BMP are
+// Text is UTF-8, drawn with DejaVu Sans (regular / bold / mono) embedded as TTF subsets:
+// what fits WinAnsiEncoding with the faces' WinAnsi cuts compiled into the binary
+// (cmake/fonts.cmake, simple fonts), anything else with the full faces read from font_dir
+// (fonts-dejavu-core) as UTF-8 Type0 fonts; Unicode spaces such as the thin space that groups
+// digits are drawn as gaps of their width (report/winansi.h). Characters outside the BMP are
 // dropped by libharu. Grey levels are 0 (black) .. 1 (white): the report prints in black and
 // white, so everything is told apart by grey, dash and marker shape, never by colour alone.
 // Output is deterministic: the same calls give the same bytes (no /ID, no automatic dates).
@@ -52,7 +55,9 @@ class PdfDocument {
 // True when `iso` is a date DocInfo::created accepts.
 bool valid_pdf_date(const std::string& iso);
 
-// Fonts are read from `font_dir` (default: fonts-dejavu-core's folder).
+// Full faces are read from `font_dir` (default: fonts-dejavu-core's folder); all three must
+// exist there, even when every string fits the compiled-in cuts, so a missing font fails
+// alike whatever the text.
 std::unique_ptr<PdfDocument> make_pdf_document(
     const std::string& font_dir = "/usr/share/fonts/truetype/dejavu");
 

@@ -43,6 +43,24 @@ expect_in report.txt "take precedence"
 tongue="$("$SCALEPROOF" reconcile --json "$SESSION" | python3 -c 'import json,sys; print(round(json.load(sys.stdin)["tongue_load"]["value"]))')"
 expect_in report.txt "$tongue"
 
+# Fonts: text that fits WinAnsiEncoding uses the compiled-in WinAnsi subsets (simple TrueType
+# fonts); a name outside it adds the full face as a UTF-8 (Type0) font, and both extract, as
+# does the document info (regression: the info strings lost their UTF-8 encoder once).
+pdffonts report.pdf >fonts.txt 2>/dev/null
+expect_in fonts.txt "DejaVuSans-WinAnsi"
+grep -q "Identity-H" fonts.txt && fail "an all-WinAnsi report embedded a Type0 font: $(cat fonts.txt)"
+name="Zoë Ωmega-Łukasz"
+expect_exit 0 "$SCALEPROOF" report "$SESSION" --key station.key --out unicode.pdf --signed-by "$name"
+pdffonts unicode.pdf >fonts.txt 2>/dev/null
+expect_in fonts.txt "Identity-H"
+pdftotext -layout unicode.pdf unicode.txt 2>/dev/null
+expect_in unicode.txt "$name"
+expect_in unicode.txt "Cautions"
+pdfinfo unicode.pdf >info.txt 2>/dev/null
+expect_in info.txt "$name"
+qpdf --check unicode.pdf >qpdf.out 2>&1 || { cat qpdf.out; fail "qpdf --check failed (unicode)"; }
+expect_exit 0 "$SCALEPROOF" verify unicode.pdf --pubkey station.pub.pem
+
 # verify: all hold, with and without the station key.
 expect_exit 0 "$SCALEPROOF" verify report.pdf --pubkey station.pub.pem
 expect_in out "all checks hold"
