@@ -104,50 +104,14 @@ const TableDesc& table_desc(std::string_view name) {
   throw Error(ExitCode::internal, "no chained table named " + std::string(name));
 }
 
-void Encoder::put64(uint64_t v) {
-  char b[8];
-  for (int i = 0; i < 8; ++i) b[i] = static_cast<char>((v >> (8 * i)) & 0xff);
-  buf_.append(b, 8);
-}
-
 void Encoder::start(const TableDesc& t, long long seq, long long id) {
-  buf_.clear();
-  fields_ = 0;
-  buf_.append("SPR1", 4);
+  size_ = kSlot;
+  char* p = grow(4);
+  std::memcpy(p, "SPR1", 4);
   add_text(t.name);
   add_int(seq);
   add_int(id);
   fields_ = 0;
-}
-
-void Encoder::add_null() {
-  buf_.push_back('\0');
-  ++fields_;
-}
-
-void Encoder::add_int(long long v) {
-  buf_.push_back('\1');
-  put64(static_cast<uint64_t>(v));
-  ++fields_;
-}
-
-void Encoder::add_real(double v) {
-  if (v == 0) v = 0.0;  // -0.0 -> +0.0, see header
-  uint64_t bits = 0;
-  std::memcpy(&bits, &v, sizeof bits);
-  buf_.push_back('\2');
-  put64(bits);
-  ++fields_;
-}
-
-void Encoder::add_text(std::string_view v) {
-  buf_.push_back('\3');
-  auto n = static_cast<uint32_t>(v.size());
-  char b[4];
-  for (int i = 0; i < 4; ++i) b[i] = static_cast<char>((n >> (8 * i)) & 0xff);
-  buf_.append(b, 4);
-  buf_.append(v.data(), v.size());
-  ++fields_;
 }
 
 }  // namespace sp::store

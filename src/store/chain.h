@@ -16,8 +16,10 @@
 #pragma once
 #include <openssl/evp.h>
 
+#include <algorithm>
 #include <array>
 #include <cstdint>
+#include <cstring>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -62,20 +64,66 @@ struct TableDesc {
 const std::vector<TableDesc>& chained_tables();
 const TableDesc& table_desc(std::string_view name);
 
-// Builds one canonical encoding. Usage: start(), then one add_* per column in order, then data().
+// Builds one canonical encoding. Usage: start(), then one add_* per column in order, then
+// data() or chained(). The encoding is built behind a 32-byte slot, so that the hashed input
+// prev || encoding is one piece (one digest update, no copy). The add_* are inline: they run
+// once per column on the import and check-store hot paths.
 class Encoder {
  public:
   void start(const TableDesc& t, long long seq, long long id);
-  void add_null();
-  void add_int(long long v);
-  void add_real(double v);
-  void add_text(std::string_view v);
-  const std::string& data() const { return buf_; }
+  void add_null() {
+    *grow(1) = '\0';
+    ++fields_;
+  }
+  void add_int(long long v) {
+    char* p = grow(9);
+    p[0] = '\1';
+    put64(p + 1, static_cast<uint64_t>(v));
+    ++fields_;
+  }
+  void add_real(double v) {
+    if (v == 0) v = 0.0;  // -0.0 -> +0.0, see header
+    uint64_t bits = 0;
+    std::memcpy(&bits, &v, sizeof bits);
+    char* p = grow(9);
+    p[0] = '\2';
+    put64(p + 1, bits);
+    ++fields_;
+  }
+  void add_text(std::string_view v) {
+    const auto n = static_cast<uint32_t>(v.size());
+    char* p = grow(5 + v.size());
+    p[0] = '\3';
+    for (int i = 0; i < 4; ++i) p[1 + i] = static_cast<char>((n >> (8 * i)) & 0xff);
+    if (n != 0) std::memcpy(p + 5, v.data(), v.size());
+    ++fields_;
+  }
+  // The encoding; valid until the next start() or add_*.
+  std::string_view data() const { return {buf_.data() + kSlot, size_ - kSlot}; }
+  // prev || the encoding, as hashed (chain.h header); valid like data().
+  std::string_view chained(const Hash& prev) {
+    std::memcpy(buf_.data(), prev.data(), kSlot);
+    return {buf_.data(), size_};
+  }
   size_t fields() const { return fields_; }
 
  private:
-  void put64(uint64_t v);
-  std::string buf_;
+  static constexpr size_t kSlot = sizeof(Hash);
+  // Little-endian whatever the host (the encoding is fixed); compilers make this one store.
+  static void put64(char* p, uint64_t v) {
+    for (int i = 0; i < 8; ++i) p[i] = static_cast<char>((v >> (8 * i)) & 0xff);
+  }
+  // Room for n more bytes at the end; returns where they go. Grows by doubling, so a
+  // reused encoder stops allocating once it has seen its largest row.
+  char* grow(size_t n) {
+    if (size_ + n > buf_.size()) buf_.resize(std::max(2 * buf_.size(), size_ + n));
+    char* p = buf_.data() + size_;
+    size_ += n;
+    return p;
+  }
+  // 512 bytes to start: more than a typical row (a pass encodes to ~200 bytes).
+  std::vector<char> buf_ = std::vector<char>(512);
+  size_t size_ = kSlot;
   size_t fields_ = 0;
 };
 

@@ -23,7 +23,7 @@ struct Cursor {
   long long seq = 0;
   void advance() {
     has_row = q->step("reading the chain");
-    if (has_row) seq = q->i64(1);
+    if (has_row) seq = sqlite3_column_int64(q->handle(), 1);
   }
 };
 
@@ -94,11 +94,15 @@ ChainCheck walk_chain(Db& db, Encoder& enc, Sha256& sha, long long from, long lo
       return bad(c, fmt::format("position {} of the chain appears twice", c.seq));
     }
     sqlite3_stmt* st = c.q->handle();
-    enc.start(*c.desc, c.seq, c.q->i64(0));
-    for (size_t k = 0; k < c.desc->columns.size(); ++k) {
-      int col = static_cast<int>(k) + 3;
-      int type = sqlite3_column_type(st, col);
-      const Column& def = c.desc->columns[k];
+    enc.start(*c.desc, c.seq, sqlite3_column_int64(st, 0));
+    const std::vector<Column>& defs = c.desc->columns;
+    for (size_t k = 0; k < defs.size(); ++k) {
+      // One column fetch, then the value accessors: a third of the API calls of asking the
+      // statement for the type, the text and its length. An unprotected sqlite3_value is
+      // fine here: it is read on this thread, before the next step (sqlite3_column_value docs).
+      sqlite3_value* v = sqlite3_column_value(st, static_cast<int>(k) + 3);
+      const int type = sqlite3_value_type(v);
+      const Column& def = defs[k];
       if (type == SQLITE_NULL) {
         enc.add_null();
         continue;
@@ -111,14 +115,24 @@ ChainCheck walk_chain(Db& db, Encoder& enc, Sha256& sha, long long from, long lo
                                   type_name(type), type_name(want)));
       }
       switch (def.type) {
-        case ColType::integer: enc.add_int(sqlite3_column_int64(st, col)); break;
-        case ColType::real: enc.add_real(sqlite3_column_double(st, col)); break;
-        case ColType::text: enc.add_text(c.q->text_view(col)); break;
+        case ColType::integer: enc.add_int(sqlite3_value_int64(v)); break;
+        case ColType::real: enc.add_real(sqlite3_value_double(v)); break;
+        case ColType::text: {
+          // The text, then its length, in that order (the length is of the form last asked
+          // for: sqlite3_column_bytes docs). The stored value is TEXT, so no conversion.
+          const unsigned char* p = sqlite3_value_text(v);
+          const auto n = static_cast<size_t>(sqlite3_value_bytes(v));
+          enc.add_text(p == nullptr ? std::string_view()
+                                    : std::string_view(reinterpret_cast<const char*>(p), n));
+          break;
+        }
       }
     }
-    Hash h = sha.digest(prev, enc.data());
-    const void* stored = sqlite3_column_blob(st, 2);
-    if (sqlite3_column_bytes(st, 2) != 32 || std::memcmp(stored, h.data(), 32) != 0) {
+    Hash h = sha.digest(enc.chained(prev));
+    // Compared as raw bytes: blob first, then its length (the documented order).
+    sqlite3_value* hv = sqlite3_column_value(st, 2);
+    const void* stored = sqlite3_value_blob(hv);
+    if (sqlite3_value_bytes(hv) != 32 || std::memcmp(stored, h.data(), 32) != 0) {
       return bad(c, c.seq == 1
                         ? "the stored hash does not match the row's content (a value was "
                           "changed, or the hash replaced)"

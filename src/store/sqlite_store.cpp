@@ -124,14 +124,14 @@ void RowBuilder::check_complete() const {
 
 Hash RowBuilder::stage(const Hash& prev) {
   check_complete();
-  Hash h = s_.sha_.digest(prev, s_.enc_.data());
+  Hash h = s_.sha_.digest(s_.enc_.chained(prev));
   st_->bind_blob(hash_param_, h.data(), static_cast<int>(h.size()));
   return h;
 }
 
 long long RowBuilder::append(std::string_view what) {
   check_complete();
-  Hash h = s_.sha_.digest(s_.head_, s_.enc_.data());
+  Hash h = s_.sha_.digest(s_.enc_.chained(s_.head_));
   st_->bind_blob(hash_param_, h.data(), static_cast<int>(h.size()));
   try {
     st_->run(what);

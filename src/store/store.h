@@ -193,10 +193,12 @@ struct Options {
   // short enough that a stuck process is reported instead of hanging (common practice).
   int busy_timeout_ms = 5000;
   // check_chain walks chains of at least this many rows in two halves on two threads (0: never).
-  // Chosen, not tuned: smaller chains take a fraction of a second on one thread, and at
-  // 125 000 rows two threads measured 1.8x (bench/README.md, item 3). Tests set it low to run
-  // the two-thread path on small stores.
-  long long parallel_check_rows = 100000;
+  // 10 000: the second walk's set-up (a second connection, its schema read, a thread) measured
+  // 3.9 M instructions under callgrind, what checking 300 to 700 rows costs (the range: SHA-256
+  // with and without SHA-NI); from 10 000 rows that is at most 7 % of the walk, so a busy second
+  // core costs little and a free one nearly halves the walk (bench/README.md, item 3). Tests
+  // set it low to run the two-thread path on small stores.
+  long long parallel_check_rows = 10000;
 };
 
 // Opens the SQLite store at `path` (":memory:" for tests). Applies pending migrations when

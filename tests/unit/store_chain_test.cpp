@@ -47,6 +47,43 @@ TEST_CASE("canonical encoding v1 is byte-for-byte stable (regression: stored cha
         std::string("\2\0\0\0\0\0\x5c\xb2\x40", 9));
 }
 
+// The check-store walk hashes Encoder::chained(prev) in one piece; it must be exactly the
+// prev || encoding of chain.h, also after a row larger than the encoder's first buffer
+// (the layout below is chain.h's field definition, spelled out by hand).
+TEST_CASE("chained encoding is prev || data, across a buffer growth and a reuse") {
+  Encoder e;
+  Sha256 sha;
+  const TableDesc& t = table_desc("corrections");
+  const std::string big(3000, 'x');  // 3000: well over the encoder's first 512-byte buffer
+  e.start(t, 7, 2);
+  e.add_text(big);
+  e.add_int(-1);
+  std::string want("SPR1", 4);
+  want += std::string("\3\13\0\0\0corrections", 16);
+  want += std::string("\1\7\0\0\0\0\0\0\0", 9);
+  want += std::string("\1\2\0\0\0\0\0\0\0", 9);
+  want += std::string("\3\xb8\x0b\0\0", 5) + big;  // 3000 = 0x0bb8, little-endian
+  want += std::string("\1\xff\xff\xff\xff\xff\xff\xff\xff", 9);
+  CHECK(e.data() == want);
+  CHECK(e.fields() == 2);
+  Hash prev{};
+  for (size_t i = 0; i < prev.size(); ++i) prev[i] = static_cast<unsigned char>(i + 1);
+  const std::string prev_bytes(reinterpret_cast<const char*>(prev.data()), prev.size());
+  CHECK(e.chained(prev) == prev_bytes + want);
+  CHECK(sha.digest(e.chained(prev)) == sha.digest(prev, want));
+  // Reused for a small row: nothing of the big one is left.
+  e.start(t, 8, 3);
+  e.add_null();
+  std::string small("SPR1", 4);
+  small += std::string("\3\13\0\0\0corrections", 16);
+  small += std::string("\1\10\0\0\0\0\0\0\0", 9);
+  small += std::string("\1\3\0\0\0\0\0\0\0", 9);
+  small += std::string("\0", 1);
+  CHECK(e.data() == small);
+  CHECK(e.fields() == 1);
+  CHECK(e.chained(prev) == prev_bytes + small);
+}
+
 TEST_CASE("table descriptors match the columns of the migrated schema") {
   TempStore ts;
   sqlite3* db = nullptr;

@@ -75,6 +75,35 @@ TEST_CASE("check_chain finds each kind of tampering at the first bad row") {
   }
 }
 
+// A value of the wrong storage type can only come from editing below SQL (the tables are
+// STRICT, which refuses one: sqlite.org/stricttables.html); here the schema text is edited to drop STRICT, as a raw file edit could. The finding
+// must name the column and both types, on the one-thread walk and through the two-half walk's
+// fallback alike.
+TEST_CASE("check_chain names a column holding the wrong storage type") {
+  for (long long parallel : {0LL, 2LL}) {
+    CAPTURE(parallel);
+    TempStore ts(parallel);
+    long long s = seed_session(*ts.store);
+    add_demo_passes(*ts.store, s);
+    REQUIRE(ts.store->check_chain({}).ok);
+    REQUIRE(ts.raw(kDropTriggers) == "");
+    // 1000: above any schema cookie of a fresh store, so every connection reloads the schema.
+    REQUIRE(ts.raw("PRAGMA writable_schema = ON; UPDATE sqlite_schema SET sql = "
+                   "replace(sql, ') STRICT', ')') WHERE name = 'passes'; "
+                   "PRAGMA schema_version = 1000;") == "");
+    REQUIRE(ts.raw("UPDATE passes SET drive = 'heavy' WHERE id = 8") == "");
+    auto c = ts.store->check_chain({});
+    CHECK_FALSE(c.ok);
+    CHECK(c.table == "passes");
+    CHECK(c.id == 8);
+    CHECK(c.seq == 8);
+    CHECK(c.ticket == std::optional<std::string>("A-1002"));
+    CHECK(c.problem == "column drive holds TEXT where REAL was stored");
+    CHECK(c.rows == 7);
+    CHECK(c.walkers == 1);
+  }
+}
+
 TEST_CASE("a forged hash that fits its own row breaks the next row's link") {
   TempStore ts;
   long long s = seed_session(*ts.store);
