@@ -62,15 +62,22 @@ void register_reconcile(CLI::App& app, Context& ctx) {
   // Sessions from the ticket store (issue #3; cli/reconcile_store.h).
   auto store_sessions = std::make_shared<std::vector<long long>>();
   auto store_all = std::make_shared<bool>(false);
+  auto jobs = std::make_shared<unsigned>(0);
   sub->add_option("--session", *store_sessions, "Session id(s) in the store (same output as a file)");
   sub->add_flag("--all", *store_all, "Every session in the store, one line (or JSON object) each");
+  CLI::Option* jobs_opt =
+      sub->add_option("--jobs", *jobs, "With --all: worker threads (0: one per core; 1: none)")
+          ->capture_default_str();
   sub->add_flag("--json", opts->json, "Print the results as JSON instead of the summary");
-  sub->callback([opts, &ctx, store_sessions, store_all] {
+  sub->callback([opts, &ctx, store_sessions, store_all, jobs, jobs_opt] {
+    if (jobs_opt->count() > 0 && !*store_all) {
+      throw usage_error("reconcile: --jobs applies to --all only (one session or file needs no threads)");
+    }
     if (!store_sessions->empty() || *store_all) {
       if (!opts->files.empty() || (*store_all && !store_sessions->empty())) {
         throw usage_error("reconcile: give FILE..., --session N or --all, only one of them");
       }
-      ctx.exit_code = reconcile_from_store(ctx, *store_sessions, *store_all, opts->json,
+      ctx.exit_code = reconcile_from_store(ctx, *store_sessions, *store_all, opts->json, *jobs,
                                            std::cout, std::cerr);
       return;
     }

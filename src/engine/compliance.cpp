@@ -2,6 +2,7 @@
 // within when value + 2u <= limit, over when value - 2u > limit, else undecided.
 #include <fmt/format.h>
 
+#include "engine/derived.h"
 #include "engine/reconcile_parts.h"
 
 namespace sp {
@@ -28,11 +29,7 @@ void add_compliance(const RigFit& fit, ReconcileResult& out) {
   };
   auto sum = [&](bool with_trailer) -> std::optional<Estimate> {
     if (!tc) return std::nullopt;
-    return fit.derive([&fit, slot, with_trailer](const Eigen::VectorXd& x) {
-      const double M = slot >= 0 ? RigFit::moment(x, static_cast<size_t>(slot)) : 0.0;
-      const AxleLoads a = predict_hitched(fit.params(x), M);
-      return a.steer + a.drive + (with_trailer ? a.trailer : 0.0);
-    });
+    return estimate(fit, hitched_load(fit, slot, with_trailer ? 4 : 3));
   };
   const auto trailer_weight = out.trailer_weight;
   const auto tongue = out.tongue_load;

@@ -6,6 +6,7 @@
 #include <cmath>
 
 #include "core/error.h"
+#include "engine/derived.h"
 #include "engine/reconcile_parts.h"
 
 namespace sp {
@@ -17,12 +18,12 @@ std::optional<TravelConfig> travel_config(const RigFit& fit) {
   return std::nullopt;
 }
 
+std::optional<Estimate> estimate(const RigFit& fit, const Linearized& q) {
+  return fit.propagate(q.value, q.g);
+}
+
 std::optional<Estimate> fitted_load(const RigFit& fit, int slot, int platform) {
-  return fit.derive([&fit, slot, platform](const Eigen::VectorXd& x) {
-    const double M = slot >= 0 ? RigFit::moment(x, static_cast<size_t>(slot)) : 0.0;
-    const AxleLoads a = predict_hitched(fit.params(x), M);
-    return platform == 0 ? a.steer : platform == 1 ? a.drive : a.trailer;
-  });
+  return estimate(fit, hitched_load(fit, slot, platform));
 }
 
 std::string fmt_weight(double v, WeightUnit u) {
@@ -72,17 +73,16 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
   out.wheelbase = fit.wheelbase;
 
   // Tow vehicle alone.
-  out.tow_steer = fit.derive([](const Eigen::VectorXd& x) { return x(xS0); });
-  out.tow_drive = fit.derive([](const Eigen::VectorXd& x) { return x(xD0); });
+  out.tow_steer = estimate(fit, parameter(fit, xS0));
+  out.tow_drive = estimate(fit, parameter(fit, xD0));
   if (!out.tow_steer || !out.tow_drive)
     out.unsolved.push_back(
         "tow vehicle axle loads: no unhitched pass; weigh the tow vehicle alone");
 
   // Tongue load, trailer weight, tongue percent.
-  out.tongue_load = fit.derive([](const Eigen::VectorXd& x) { return x(xT); });
-  out.trailer_weight = fit.derive([](const Eigen::VectorXd& x) { return x(xT) + x(xA0); });
-  out.tongue_percent =
-      fit.derive([](const Eigen::VectorXd& x) { return 100.0 * x(xT) / (x(xT) + x(xA0)); });
+  out.tongue_load = estimate(fit, parameter(fit, xT));
+  out.trailer_weight = estimate(fit, trailer_weight(fit));
+  out.tongue_percent = estimate(fit, tongue_percent(fit));
   const std::string tongue_name =
       session.trailer.type == TrailerType::fifth_wheel ? "pin (tongue) load" : "tongue load";
   if (!out.tongue_load) out.unsolved.push_back(tongue_name + ": " + tongue_advice(fit));
@@ -97,9 +97,9 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
     out.unsolved.push_back("tongue percent: trailer weight is zero");
 
   // Lengths as back-solved.
-  if (auto o = fit.derive([](const Eigen::VectorXd& x) { return x(xO); }))
+  if (auto o = estimate(fit, parameter(fit, xO)))
     out.rear_axle_to_ball = LengthEstimate{o->value, o->u, session.tow_vehicle.rear_axle_to_ball};
-  if (auto l = fit.derive([](const Eigen::VectorXd& x) { return x(xL); }))
+  if (auto l = estimate(fit, parameter(fit, xL)))
     out.ball_to_axle = LengthEstimate{l->value, l->u, session.trailer.ball_to_axle};
 
   // Tensioned passes.
@@ -114,7 +114,7 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
     t.ticket = p.ticket;
     t.setting = p.setting;
     if (p.setting) t.setting_number = parse_number(*p.setting);
-    auto m = fit.derive([k, mf](const Eigen::VectorXd& x) { return mf * RigFit::moment(x, k); });
+    auto m = estimate(fit, parameter(fit, xM0 + static_cast<Eigen::Index>(k), mf));
     auto s = fitted_load(fit, slot, 0), d = fitted_load(fit, slot, 1),
          tr = fitted_load(fit, slot, 2);
     if (!m || !s || !d || !tr) {
@@ -128,12 +128,8 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
     t.steer = *s;
     t.drive = *d;
     t.trailer = *tr;
-    t.ball_load = fit.derive([&fit, k](const Eigen::VectorXd& x) {
-      return ball_load(fit.params(x), RigFit::moment(x, k));
-    });
-    t.falr = fit.derive([&fit, k](const Eigen::VectorXd& x) {
-      return falr_percent(fit.params(x), RigFit::moment(x, k));
-    });
+    t.ball_load = estimate(fit, ball_load_at(fit, slot));
+    t.falr = estimate(fit, falr_at(fit, slot));
     if (!t.ball_load)
       out.unsolved.push_back(fmt::format("ball load of ticket {}: needs the tongue load ({})",
                                          p.ticket, tongue_advice(fit)));

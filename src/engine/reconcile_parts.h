@@ -16,6 +16,10 @@ struct TravelConfig {
 };
 std::optional<TravelConfig> travel_config(const RigFit& fit);
 
+struct Linearized;
+// The Estimate of a derived quantity (engine/derived.h): RigFit::propagate of its gradient.
+std::optional<Estimate> estimate(const RigFit& fit, const Linearized& q);
+
 // Fitted (steer, drive, trailer) of a hitched configuration at moment slot (-1: bars slack).
 std::optional<Estimate> fitted_load(const RigFit& fit, int slot, int platform /*0,1,2*/);
 

@@ -92,8 +92,15 @@ std::optional<Estimate> RigFit::derive(
     if (!std::isfinite(fp) || !std::isfinite(fm)) return std::nullopt;
     g(k) = (fp - fm) / (2 * h);
   }
+  return propagate(v, g);
+}
+
+std::optional<Estimate> RigFit::propagate(double value, const Eigen::VectorXd& g) const {
+  if (!std::isfinite(value) || !g.allFinite()) return std::nullopt;
+  // 1e-6: the tolerance derived quantities have always been tested with (the solver's
+  // default in wls.h is 1e-7).
   if (!sol.estimable(g, 1e-6)) return std::nullopt;
-  return Estimate{v, std::sqrt(sol.variance(g))};
+  return Estimate{value, std::sqrt(sol.variance(g))};
 }
 
 RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
@@ -117,6 +124,12 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
   };
   std::vector<double> y, sig;
   std::vector<int> mslot;  // per measurement: moment slot (-1 none)
+  // At most three readings a pass plus the two tape lengths: one allocation each.
+  const size_t most = 3 * s.passes.size() + 2;
+  r.meas.reserve(most);
+  y.reserve(most);
+  sig.reserve(most);
+  mslot.reserve(most);
   for (size_t i = 0; i < s.passes.size(); ++i) {
     const Pass& p = s.passes[i];
     if (p.voided) continue;

@@ -45,7 +45,12 @@ struct RigFit {
   }
   // Value and standard uncertainty of f(x) at the solution by linear propagation (numeric
   // central-difference gradient); nullopt when f is not determined by the data or not finite.
+  // The engine's own quantities use propagate with analytic gradients (engine/derived.h,
+  // target.cpp for the bar setting); this stays as the reference the tests check them with.
   std::optional<Estimate> derive(const std::function<double(const Eigen::VectorXd&)>& f) const;
+  // The same propagation from the value and gradient g = df/dx at the solution (analytic);
+  // nullopt when either is not finite or f is not determined by the data.
+  std::optional<Estimate> propagate(double value, const Eigen::VectorXd& g) const;
 };
 
 // Validates the session's preconditions (throws sp::Error(data_error) naming the field) and

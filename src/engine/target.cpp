@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "engine/derived.h"
 #include "engine/reconcile_parts.h"
 
 namespace sp {
@@ -27,8 +28,7 @@ void add_target(const RigFit& fit, ReconcileResult& out) {
   t.falr_from_rig = s.tow_vehicle.falr_target.has_value();
   t.falr = s.tow_vehicle.falr_target.value_or(kDefaultFalr);
   const double f = t.falr;
-  auto mstar = [&fit, f](const Eigen::VectorXd& x) { return moment_for_falr(fit.params(x), f); };
-  t.bar_moment = fit.derive([&](const Eigen::VectorXd& x) { return mf * mstar(x); });
+  t.bar_moment = estimate(fit, target_moment(fit, f, mf));
   if (!t.bar_moment) {
     out.unsolved.push_back(fmt::format("bar moment for {:g} % FALR: needs the tongue load; {}", f,
                                        fit.unhitched.empty()
@@ -38,15 +38,7 @@ void add_target(const RigFit& fit, ReconcileResult& out) {
     out.target = std::move(t);
     return;
   }
-  auto at_target = [&](int platform) {
-    return fit.derive([&fit, &mstar, platform](const Eigen::VectorXd& x) {
-      const RigParams p = fit.params(x);
-      const double M = mstar(x);
-      if (platform == 3) return ball_load(p, M);
-      const AxleLoads a = predict_hitched(p, M);
-      return platform == 0 ? a.steer : platform == 1 ? a.drive : a.trailer;
-    });
-  };
+  auto at_target = [&fit, f](int platform) { return estimate(fit, target_load(fit, f, platform)); };
   t.steer = at_target(0);
   t.drive = at_target(1);
   t.trailer = at_target(2);
@@ -98,10 +90,16 @@ void add_target(const RigFit& fit, ReconcileResult& out) {
     out.target = std::move(t);
     return;
   }
-  auto setting = fit.derive([&](const Eigen::VectorXd& x) {
-    const Eigen::Vector2d c = G * moments(x);
-    return (mstar(x) - c(0)) / c(1);
-  });
+  // setting = (M*(x) - c0)/c1 with (c0, c1) = G·moments(x), linear in the moments.
+  const Eigen::Vector2d c = G * moments(fit.sol.x);
+  const Linearized m_target = target_moment(fit, f);
+  Linearized q{(m_target.value - c(0)) / c(1), m_target.g / c(1)};
+  const double rest = (m_target.value - c(0)) / (c(1) * c(1));
+  for (Eigen::Index i = 0; i < n; ++i) {
+    const Eigen::Index m = xM0 + static_cast<Eigen::Index>(pts[static_cast<size_t>(i)].slot);
+    q.g(m) += -G(0, i) / c(1) - rest * G(1, i);
+  }
+  auto setting = estimate(fit, q);
   if (!setting) {
     t.note = "no setting: not determined by these passes";
     out.target = std::move(t);
