@@ -1,12 +1,22 @@
 // `scaleproof report FILE|--session N --key NAME.key --out report.pdf [--signed-by NAME]
 //  [--paper a4|letter] [--issued-at ISO]`: the signed PDF weigh-report.
+// `scaleproof report --session N M ... --out-dir DIR ...`: one report per session, written to
+// DIR/report-N.pdf (+ .sig), in one process (a station issuing the day's reports pays the
+// start-up, the key and the store once).
 // Writes report.pdf and report.pdf.sig (raw 64-byte Ed25519 over the PDF's bytes); refuses to
 // overwrite either (73). With --session the report is recorded in the store (which public key
 // signed it, and the PDF's SHA-256); if recording fails, the files just written are removed.
-// Same input, same key, same options -> byte-identical files (no clock unless --issued-at).
+// A batch is all or nothing: every output name is checked and every session loaded before the
+// first file is written, and on any failure the files already written are removed and nothing
+// is recorded.
+// Same input, same key, same options -> byte-identical files (no clock unless --issued-at); a
+// batch writes the same bytes as one `report --session N` per session.
 #include <unistd.h>
 
+#include <sys/stat.h>
+
 #include <iostream>
+#include <set>
 
 #include "cli/commands.h"
 #include "core/error.h"
@@ -27,9 +37,90 @@ constexpr std::size_t kMaxSessionBytes = 16u << 20;
 
 struct ReportOpts {
   std::string file;
-  long long session = 0;
-  std::string key, out, signed_by, paper = "a4", issued_at;
+  std::vector<long long> sessions;
+  std::string key, out, out_dir, signed_by, paper = "a4", issued_at;
 };
+
+// One report to write: its session (0: from a file) and its two output paths.
+struct Planned {
+  long long session = 0;
+  std::string pdf, sig;
+};
+
+void refuse_existing(const Planned& p) {
+  for (const std::string& f : {p.pdf, p.sig}) {
+    if (::access(f.c_str(), F_OK) == 0) {
+      throw Error(ExitCode::cant_create, f + ": already exists; refusing to overwrite it");
+    }
+  }
+}
+
+report::IssueOptions issue_options(const ReportOpts& o) {
+  report::IssueOptions opt;
+  if (!o.issued_at.empty()) opt.issued_at = o.issued_at;
+  if (!o.signed_by.empty()) opt.signed_by = o.signed_by;
+  opt.paper = o.paper;
+  opt.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
+  return opt;
+}
+
+// Files written so far; removed unless keep() is called (a failed report or batch leaves none).
+class Written {
+ public:
+  Written() = default;
+  Written(const Written&) = delete;
+  Written& operator=(const Written&) = delete;
+  ~Written() {
+    if (keep_) return;
+    for (const auto& f : files_) ::unlink(f.c_str());
+  }
+  void write(const std::string& path, const std::string& bytes) {
+    report::write_file_atomic(path, bytes, true);
+    files_.push_back(path);
+  }
+  void keep() { keep_ = true; }
+
+ private:
+  std::vector<std::string> files_;
+  bool keep_ = false;
+};
+
+store::IssuedReport report_row(long long session, const report::IssuedReport& rep, const ReportOpts& o,
+                               const report::IssueOptions& opt) {
+  store::IssuedReport row;
+  row.session_id = session;
+  row.report_id = rep.id;
+  row.pdf_sha256 = report::to_hex(report::sha256(rep.pdf));
+  row.key_fingerprint = rep.fingerprint;
+  row.signed_by = opt.signed_by;
+  row.issued_at = o.issued_at;  // empty: the store records the time of recording
+  return row;
+}
+
+// The reports to write, in the order given; usage errors for a wrong combination of options.
+std::vector<Planned> plan_outputs(const ReportOpts& o) {
+  const bool from_file = !o.file.empty();
+  if (!from_file && o.sessions.empty()) throw usage_error("report: give a session FILE or --session N");
+  if (!o.out_dir.empty()) {
+    if (from_file) throw usage_error("report: --out-dir is for --session N...; a FILE takes --out");
+    if (!o.out.empty()) throw usage_error("report: give --out (one report) or --out-dir (one per session), not both");
+    struct stat st {};
+    if (::stat(o.out_dir.c_str(), &st) != 0 || !S_ISDIR(st.st_mode)) {
+      throw Error(ExitCode::cant_create, o.out_dir + ": --out-dir must be an existing folder");
+    }
+    std::vector<Planned> plan;
+    std::set<long long> seen;
+    for (long long id : o.sessions) {
+      if (!seen.insert(id).second) throw usage_error("report: session " + std::to_string(id) + " is given twice");
+      const std::string pdf = o.out_dir + "/report-" + std::to_string(id) + ".pdf";
+      plan.push_back({id, pdf, pdf + ".sig"});
+    }
+    return plan;
+  }
+  if (o.sessions.size() > 1) throw usage_error("report: several sessions need --out-dir DIR (one report each)");
+  if (o.out.empty()) throw usage_error("report: --out is required (or --out-dir DIR with --session)");
+  return {{from_file ? 0 : o.sessions[0], o.out, o.out + ".sig"}};
+}
 
 }  // namespace
 
@@ -38,11 +129,13 @@ void register_report(CLI::App& app, Context& ctx) {
   sub->footer("Examples:\n  scaleproof report --session 1 --key keys/station.key --out report-1.pdf \\\n      --signed-by \"Marit Oyelaran\" --issued-at 2026-10-14T09:50:00-06:00\n  scaleproof report data-demo/sessions/01-pickup-travel-trailer.json --key keys/station.key --out r.pdf");
   auto o = std::make_shared<ReportOpts>();
   auto* file = sub->add_option("FILE", o->file, "Session file (scaleproof-session/1 JSON)");
-  auto* session = sub->add_option("--session", o->session, "Session id in the store")
+  auto* session = sub->add_option("--session", o->sessions, "Session id(s) in the store")
                       ->check(CLI::Range(1LL, 1LL << 53));
   file->excludes(session);
   sub->add_option("--key", o->key, "Station private key (NAME.key from `key new`)")->required();
-  sub->add_option("--out", o->out, "Output PDF; the detached signature goes to OUT.sig")->required();
+  sub->add_option("--out", o->out, "Output PDF; the detached signature goes to OUT.sig");
+  sub->add_option("--out-dir", o->out_dir,
+                  "With --session N...: existing folder for report-N.pdf (+ .sig), one per session");
   sub->add_option("--signed-by", o->signed_by, "Name of the operator who signs");
   sub->add_option("--paper", o->paper, "Paper size: a4 or letter")->check(CLI::IsMember({"a4", "letter"}));
   sub->add_option("--issued-at", o->issued_at, "Issue time printed and signed, ISO 8601 "
@@ -51,68 +144,57 @@ void register_report(CLI::App& app, Context& ctx) {
         return report::valid_pdf_date(v) ? std::string()
                                          : "--issued-at: expected YYYY-MM-DDTHH:MM:SS with Z or +HH:MM, got " + v;
       });
-  sub->callback([o, file, session, &ctx] {
-    if (!*file && !*session) throw usage_error("report: give a session FILE or --session N");
-    const std::string sig_path = o->out + ".sig";
-    for (const std::string& p : {o->out, sig_path}) {
-      if (::access(p.c_str(), F_OK) == 0) {
-        throw Error(ExitCode::cant_create, p + ": already exists; refusing to overwrite it");
-      }
-    }
+  sub->callback([o, &ctx] {
+    const std::vector<Planned> plan = plan_outputs(*o);
+    for (const Planned& p : plan) refuse_existing(p);
     auto signer = report::signer_from_pem(report::read_file_bytes(o->key), o->key);
+    const report::IssueOptions opt = issue_options(*o);
 
-    Session s;
+    // Every session is read (and so known to exist) before anything is written.
+    std::vector<Session> sessions;
     std::unique_ptr<store::Store> db;
-    if (*file) {
+    if (!o->file.empty()) {
       std::string text = report::read_file_bytes(o->file);
       if (text.size() > kMaxSessionBytes) throw data_error(o->file + ": larger than 16 MiB; expected a session file");
-      s = parse_session_json(text, o->file);
+      sessions.push_back(parse_session_json(text, o->file));
     } else {
       db = store::open_sqlite_store(resolve_db_path(ctx), store::Options{});
       store::Txn txn(*db, store::Txn::read);
-      s = db->load_session(o->session);
+      for (const Planned& p : plan) sessions.push_back(db->load_session(p.session));
       txn.commit();
     }
-    ReconcileResult result = reconcile(s);
 
-    report::IssueOptions opt;
-    if (!o->issued_at.empty()) opt.issued_at = o->issued_at;
-    if (!o->signed_by.empty()) opt.signed_by = o->signed_by;
-    opt.paper = o->paper;
-    opt.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
-    report::IssuedReport rep =
-        report::issue_report(s, result, report::session_json(s), report::results_json(result), *signer, opt);
-
-    report::write_file_atomic(o->out, rep.pdf, true);
-    try {
-      report::write_file_atomic(sig_path, rep.pdf_signature, true);
-    } catch (...) {
-      ::unlink(o->out.c_str());
-      throw;
+    Written written;
+    std::vector<std::string> ids;  // only the ids and the key are printed: memory stays per report
+    std::string fingerprint;
+    std::vector<store::IssuedReport> rows;
+    for (size_t i = 0; i < plan.size(); ++i) {
+      const Session& s = sessions[i];
+      ReconcileResult result = reconcile(s);
+      report::IssuedReport rep =
+          report::issue_report(s, result, report::session_json(s), report::results_json(result), *signer, opt);
+      written.write(plan[i].pdf, rep.pdf);
+      written.write(plan[i].sig, rep.pdf_signature);
+      if (db) rows.push_back(report_row(plan[i].session, rep, *o, opt));
+      ids.push_back(rep.id);
+      fingerprint = rep.fingerprint;
     }
     if (db) {
-      try {
-        store::IssuedReport row;
-        row.session_id = o->session;
-        row.report_id = rep.id;
-        row.pdf_sha256 = report::to_hex(report::sha256(rep.pdf));
-        row.key_fingerprint = rep.fingerprint;
-        row.signed_by = opt.signed_by;
-        row.issued_at = o->issued_at;  // empty: the store records the time of recording
-        store::Txn txn(*db, store::Txn::write);
+      store::Txn txn(*db, store::Txn::write);
+      for (const store::IssuedReport& row : rows) {
         bool known = false;
-        for (const auto& r : db->list_reports(o->session)) known = known || r.report_id == rep.id;
+        for (const auto& r : db->list_reports(row.session_id)) known = known || r.report_id == row.report_id;
         if (!known) db->record_report(row);  // an identical re-issue is the same report
-        txn.commit();
-      } catch (...) {
-        ::unlink(o->out.c_str());
-        ::unlink(sig_path.c_str());
-        throw;
       }
+      txn.commit();
     }
+    written.keep();
     if (!ctx.quiet) {
-      std::cout << "report " << rep.id << " written to " << o->out << " (signature " << sig_path << ")\n"
-                << "signed with key " << rep.fingerprint << "\n";
+      for (size_t i = 0; i < plan.size(); ++i) {
+        std::cout << "report " << ids[i] << " written to " << plan[i].pdf << " (signature " << plan[i].sig
+                  << ")\n";
+      }
+      std::cout << "signed with key " << fingerprint << "\n";
     }
     ctx.exit_code = 0;
   });
