@@ -101,6 +101,8 @@ void engine_rules(const AuditItem& item, std::vector<Finding>& out) {
   const ReconcileResult& r = *item.result;
   for (const Flag& fl : r.flags) {
     if (fl.code == "off-division" || fl.code == "gross-mismatch") continue;  // audit's own
+    // One finding per cause: a rating over is the audit's compliance-over (below).
+    if (fl.code == kRatingOverFlag) continue;
     Finding f = make_finding(fl.code, fl.severity, fl.message,
                              "engine check (scaleproof reconcile; see its documentation)");
     f.ticket = fl.ticket;

@@ -19,7 +19,7 @@ ComplianceStatus decide(double value, double u, double limit) {
 
 }  // namespace
 
-void add_compliance(const RigFit& fit, ReconcileResult& out) {
+int add_compliance(const RigFit& fit, ReconcileResult& out) {
   const Session& s = *fit.session;
   const auto tc = travel_config(fit);
   const int slot = tc ? tc->slot : -1;
@@ -53,10 +53,12 @@ void add_compliance(const RigFit& fit, ReconcileResult& out) {
       {"hitch_trailer_rating", "Trailer weight vs hitch trailer rating",
        s.tow_vehicle.hitch_trailer_rating, [&] { return trailer_weight; }},
   };
+  int unsolved = 0;
   for (const Row& r : rows) {
     if (!r.limit) continue;  // absent ratings are skipped, never guessed
     const auto v = r.value();
     if (!v) {
+      ++unsolved;
       out.unsolved.push_back(fmt::format(
           "{}: the value is not solved from these passes{}", r.rating,
           tc ? "" : "; weigh the rig hitched (bars slack, then tensioned as it travels)"));
@@ -72,6 +74,7 @@ void add_compliance(const RigFit& fit, ReconcileResult& out) {
     c.status = decide(v->value, v->u, *r.limit);
     out.compliance.push_back(std::move(c));
   }
+  return unsolved;
 }
 
 }  // namespace sp

@@ -25,7 +25,8 @@ Flag make_flag(const char* code, Severity severity, std::string message,
 
 }  // namespace
 
-void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileResult& out) {
+std::optional<ExcludedMeasurement> add_fit_results(const RigFit& fit, const ReconcileOptions& opt,
+                                                   ReconcileResult& out) {
   const Session& s = *fit.session;
   const GlobalTestResult g = global_test(fit.sol, opt.alpha);
   FitResult fr;
@@ -62,7 +63,7 @@ void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileRe
     f.normalized = mt.z[j] >= 0 ? mt.z[j] : 0.0;
     out.measurements.push_back(std::move(f));
   }
-  if (g.passed) return;
+  if (g.passed) return std::nullopt;
 
   Flag fl;
   fl.severity = Severity::error;
@@ -73,7 +74,7 @@ void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileRe
         "but no single reading or tape length stands out; re-weigh the rig",
         g.chi_square, g.critical, g.dof);
     out.flags.push_back(std::move(fl));
-    return;
+    return std::nullopt;
   }
   const size_t w = static_cast<size_t>(*mt.worst);
   const RigMeasurement& m = fit.meas[w];
@@ -101,6 +102,18 @@ void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileRe
         m.field, measured, lunit, mt.z[w], mt.z_critical, *mt.needed, lunit, tie_note);
   }
   out.flags.push_back(std::move(fl));
+  // Serial elimination removes one measurement the test singles out; a tie names several the
+  // data cannot tell apart, so there is no one value to leave out.
+  if (!mt.tied.empty()) return std::nullopt;
+  ExcludedMeasurement ex;
+  if (m.pass >= 0) {
+    ex.ticket = s.passes[static_cast<size_t>(m.pass)].ticket;
+    ex.platform = m.platform;
+  } else {
+    ex.field = m.field;
+  }
+  ex.entered = measured;
+  return ex;
 }
 
 void add_reading_flags(const Session& s, ReconcileResult& out) {

@@ -8,6 +8,7 @@
 #include "core/error.h"
 #include "engine/derived.h"
 #include "engine/reconcile_parts.h"
+#include "engine/verdict.h"
 
 namespace sp {
 
@@ -44,6 +45,35 @@ std::optional<double> parse_number(const std::string& s) {
   auto [ptr, ec] = std::from_chars(b, e, v);
   if (ec != std::errc() || ptr != e || !std::isfinite(v)) return std::nullopt;
   return v;
+}
+
+// A tensioned bar pushes the front of the tow vehicle down: its moment and FALR are >= 0 by
+// construction (statics, engine/statics.h). A negative value within 2u of zero is a setting
+// that barely loads the bars; one beyond it cannot be, so a number of the session is wrong.
+// On a failed fit a negative value is first of all a symptom of the value the flags name.
+std::optional<std::string> negative_note(const TensionedResult& t, bool fit_failed) {
+  const bool m_neg = t.bar_moment.value < 0;
+  const bool f_neg = t.falr && t.falr->value < 0;
+  if (!m_neg && !f_neg) return std::nullopt;
+  const std::string what = m_neg && f_neg ? "bar moment and FALR" : m_neg ? "bar moment" : "FALR";
+  const bool near_zero =
+      m_neg ? t.bar_moment.value + 2 * t.bar_moment.u >= 0 : t.falr->value + 2 * t.falr->u >= 0;
+  if (fit_failed)
+    return fmt::format(
+        "ticket {}: the {} come{} out below zero, which tensioned bars cannot do (they press the "
+        "steer axle down, never lift it): the fit failed, and the value the flags name is the "
+        "likely cause.",
+        t.ticket, what, m_neg && f_neg ? "" : "s");
+  if (near_zero)
+    return fmt::format(
+        "ticket {}: the {} come{} out below zero but within the uncertainty of zero: the bars "
+        "carry next to no load at this setting.",
+        t.ticket, what, m_neg && f_neg ? "" : "s");
+  return fmt::format(
+      "ticket {}: the {} come{} out below zero, which tensioned bars cannot do (they press the "
+      "steer axle down, never lift it): a reading or a tape length of this weighing is probably "
+      "wrong; see the fit test and the flags.",
+      t.ticket, what, m_neg && f_neg ? "" : "s");
 }
 
 // Which pass would make the slack tongue load solvable.
@@ -143,11 +173,27 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
   if (auto tc = travel_config(fit))
     out.travel_pass = session.passes[static_cast<size_t>(tc->pass)].ticket;
 
-  add_fit_results(fit, options, out);
+  const std::optional<ExcludedMeasurement> named = add_fit_results(fit, options, out);
   add_reading_flags(session, out);
   add_target(fit, out);
   add_load_flags(fit, options, out);
-  add_compliance(fit, out);
+  const int ratings_unsolved = add_compliance(fit, out);
+  add_rating_over_flags(out);
+  const bool fit_failed = out.fit && !out.fit->passed;
+  for (TensionedResult& t : out.tensioned) t.note = negative_note(t, fit_failed);
+  // No advice offered as sound on a failed fit, nor on a what-if re-solve (RULES.md).
+  if (out.target && (fit_failed || options.exclude)) out.target->provisional = true;
+  VerdictDecision v = decide_verdict(out, ratings_unsolved);
+  out.verdict = v.verdict;
+  out.verdict_reason = std::move(v.reason);
+  // Serial elimination (Narasimhan & Jordache 2000, ch. 7): one step, without the value the
+  // measurement test names, reported beside the result and never in its place.
+  if (fit_failed && named && !options.exclude) {
+    ReconcileOptions again = options;
+    again.exclude = named;
+    out.if_excluded =
+        IfExcluded{*named, std::make_shared<const ReconcileResult>(reconcile(session, again))};
+  }
   return out;
 }
 

@@ -28,6 +28,10 @@ struct ReconcileOptions {
   double tape_u_inches = 0.5;
   // Points below the FALR target that raise `under-restored` (issue #2: 10 points).
   double under_restored_points = 10.0;
+  // Leave this one measurement out of the fit (ticket + platform, or field; `entered` is not
+  // read): the `if_excluded` re-solve. nullopt: every measurement. A result solved with an
+  // exclusion is itself never re-solved again, and its recommendation is provisional.
+  std::optional<ExcludedMeasurement> exclude;
 };
 
 ReconcileResult reconcile(const Session& session, const ReconcileOptions& options = {});

@@ -27,14 +27,18 @@ std::optional<Estimate> fitted_load(const RigFit& fit, int slot, int platform /*
 std::string fmt_weight(double v, WeightUnit u);
 std::string fmt_estimate(const Estimate& e, std::string_view unit);
 
-// Fit statistics, per-measurement table, inconsistent-reading / geometry-mismatch.
-void add_fit_results(const RigFit& fit, const ReconcileOptions& opt, ReconcileResult& out);
+// Fit statistics, per-measurement table, inconsistent-reading / geometry-mismatch. Returns
+// the measurement a failed fit names when it is the only one named (no tie): the candidate for
+// the if_excluded re-solve, with its entered value.
+std::optional<ExcludedMeasurement> add_fit_results(const RigFit& fit, const ReconcileOptions& opt,
+                                                   ReconcileResult& out);
 // off-division, gross-mismatch (need only the entered readings).
 void add_reading_flags(const Session& s, ReconcileResult& out);
 // over-restored, under-restored, rear-unloaded, tongue-percent. Needs out.tensioned, out.target.
 void add_load_flags(const RigFit& fit, const ReconcileOptions& opt, ReconcileResult& out);
-// Ratings of the travel configuration.
-void add_compliance(const RigFit& fit, ReconcileResult& out);
+// Ratings of the travel configuration. Returns how many ratings the session gives whose value
+// the passes do not solve (each also gets an `unsolved` line).
+int add_compliance(const RigFit& fit, ReconcileResult& out);
 // FALR target, its bar moment, predicted loads, and the setting fit.
 void add_target(const RigFit& fit, ReconcileResult& out);
 

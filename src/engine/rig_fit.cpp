@@ -138,6 +138,8 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
       for (size_t k = 0; k < r.tensioned.size(); ++k)
         if (r.tensioned[k] == static_cast<int>(i)) slot = static_cast<int>(k);
     auto add = [&](const char* platform, double v) {
+      if (opt.exclude && opt.exclude->ticket == p.ticket && opt.exclude->platform == platform)
+        return;  // the if_excluded re-solve
       r.meas.push_back({static_cast<int>(i), platform, ""});
       y.push_back(v);
       sig.push_back(sigma_of(v));
@@ -150,14 +152,15 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
   const double tape_u = s.length_uncertainty
                             ? *s.length_uncertainty
                             : opt.tape_u_inches * length_factor(LengthUnit::in, s.units.length);
-  r.meas.push_back({-1, "", "rear_axle_to_ball"});
-  y.push_back(s.tow_vehicle.rear_axle_to_ball);
-  sig.push_back(tape_u);
-  mslot.push_back(-1);
-  r.meas.push_back({-1, "", "ball_to_axle"});
-  y.push_back(s.trailer.ball_to_axle);
-  sig.push_back(tape_u);
-  mslot.push_back(-1);
+  for (const auto& [field, v] :
+       {std::pair<const char*, double>{"rear_axle_to_ball", s.tow_vehicle.rear_axle_to_ball},
+        {"ball_to_axle", s.trailer.ball_to_axle}}) {
+    if (opt.exclude && opt.exclude->field == field) continue;  // the if_excluded re-solve
+    r.meas.push_back({-1, "", field});
+    y.push_back(v);
+    sig.push_back(tape_u);
+    mslot.push_back(-1);
+  }
 
   const Eigen::Index m = static_cast<Eigen::Index>(y.size());
   const Eigen::Index n = xM0 + static_cast<Eigen::Index>(r.tensioned.size());
@@ -211,12 +214,11 @@ RigFit fit_rig(const Session& s, const ReconcileOptions& opt) {
       continue;
     }
     const int platform = mm.platform == "steer" ? 0 : mm.platform == "drive" ? 1 : 2;
-    rows.push_back({platform, s.passes[static_cast<size_t>(mm.pass)].kind != PassKind::unhitched,
-                    mslot[j]});
+    rows.push_back(
+        {platform, s.passes[static_cast<size_t>(mm.pass)].kind != PassKind::unhitched, mslot[j]});
   }
   const double WB = r.wheelbase;
-  r.problem.model = [rows, WB](const Eigen::VectorXd& x, Eigen::VectorXd& f,
-                               Eigen::MatrixXd& J) {
+  r.problem.model = [rows, WB](const Eigen::VectorXd& x, Eigen::VectorXd& f, Eigen::MatrixXd& J) {
     J.setZero();
     const RigParams p{x(xS0), x(xD0), x(xA0), x(xT), x(xO), x(xL), WB};
     const LoadJacobian lj_unhitched = jacobian_unhitched();

@@ -112,6 +112,25 @@ void add_target(const RigFit& fit, ReconcileResult& out) {
     if (chi > 1) setting->u *= std::sqrt(chi);
   }
   t.setting = setting;
+  // Whole-step hitches (every numeric setting weighed is a whole number: links, holes): name
+  // the whole settings either side. A fit within 2u of a whole step lands on it (k = 2, as
+  // every decision here); otherwise the nearer one is tried first (the lower on a tie: less
+  // tension is the side an under-restored rig is flagged on, never over-restored).
+  const bool whole = std::all_of(pts.begin(), pts.end(), [](const SettingPoint& p) {
+    return std::floor(p.setting) == p.setting;
+  });
+  if (whole) {
+    WholeStepSetting w;
+    const double nearest = std::round(setting->value);
+    if (std::fabs(setting->value - nearest) <= 2 * setting->u) {
+      w.lower = w.upper = w.try_first = nearest;
+    } else {
+      w.lower = std::floor(setting->value);
+      w.upper = w.lower + 1;
+      w.try_first = setting->value - w.lower <= 0.5 ? w.lower : w.upper;
+    }
+    t.whole_step = w;
+  }
   if (setting->value < smin || setting->value > smax)
     t.note = fmt::format(
         "setting {:.2f} is outside the weighed settings {:g} to {:g} "

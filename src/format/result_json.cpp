@@ -2,16 +2,22 @@
 // numbers are rounded per format/rounding.h (one decimal more than the text summary), so the
 // output is deterministic and free of float noise. Unsolved quantities are null.
 //
-//   units {weight, length}, moment_unit,
+//   verdict ("compliant" | "over" | "undecided" | "not-proven"), verdict_reason (one sentence),
+//   units {weight, length}, moment_unit, uncertainty (what u and ± mean, in words),
+//   tow_steer, tow_drive (tow vehicle alone)              {value, u} | null
 //   tongue_load, trailer_weight, tongue_percent          {value, u} | null
 //   rear_axle_to_ball, ball_to_axle                      {value, u, entered} | null
-//   tensioned [{ticket, setting, bar_moment, ball_load, falr, steer, drive, trailer}]
-//   target {falr, falr_from_rig, bar_moment, setting, steer, drive, trailer, ball_load, note}|null
+//   tensioned [{ticket, setting, bar_moment, ball_load, falr, steer, drive, trailer, [note]}]
+//   target {falr, falr_from_rig, bar_moment, setting, steer, drive, trailer, ball_load, note,
+//           provisional, whole_step {lower, upper, try_first} | null} | null
 //   fit {chi_square, dof, p_value, critical, passed} | null
-//   flags [{code, severity, message, [ticket], [platform], [field], [needed]}]
+//   flags [{code, severity, message, [ticket], [platform], [field], [needed], [rating]}]
 //   compliance [{rating, label, limit, value, u, margin, status}]
-//   travel_pass, unsolved [text]
-// Every u is a standard uncertainty (k = 1).
+//   travel_pass, unsolved [text],
+//   if_excluded {excluded {ticket, platform, entered} | {field, entered}, result {...}} | null
+//     (result: the same shape, solved without the excluded value; its if_excluded is null)
+// Every u is a standard uncertainty (k = 1); the text summary, the report and the messages
+// show ± 2u (k = 2, about 95 %). `uncertainty` says so inside the document.
 //
 // append_result_json writes the same document straight into a string (no JSON tree): the bulk
 // path (`reconcile --all --json`) prints one per session. It must stay byte-identical to
@@ -32,6 +38,11 @@
 namespace sp {
 
 namespace {
+
+// Inside every result document, so a reader of the JSON alone knows which figures are which.
+constexpr const char* kUncertaintyNote =
+    "every u is a standard uncertainty (k = 1); the text summary, the report and the messages "
+    "print value ± 2u (expanded, k = 2, about 95 %)";
 
 using nlohmann::ordered_json;
 using format::kJsonExtraDecimals;
@@ -82,6 +93,14 @@ ordered_json target_json(const TargetResult& t, const Places& p) {
   j["trailer"] = est(t.trailer, p.weight);
   j["ball_load"] = est(t.ball_load, p.weight);
   j["note"] = t.note ? ordered_json(*t.note) : ordered_json(nullptr);
+  j["provisional"] = t.provisional;
+  if (t.whole_step) {
+    j["whole_step"] = {{"lower", round_to(t.whole_step->lower, 2)},
+                       {"upper", round_to(t.whole_step->upper, 2)},
+                       {"try_first", round_to(t.whole_step->try_first, 2)}};
+  } else {
+    j["whole_step"] = nullptr;
+  }
   return j;
 }
 
@@ -94,6 +113,16 @@ ordered_json flag_json(const Flag& f, const Places& p) {
   if (f.platform) j["platform"] = *f.platform;
   if (f.field) j["field"] = *f.field;
   if (f.needed) j["needed"] = round_to(*f.needed, f.field ? p.length : p.weight);
+  if (f.rating) j["rating"] = *f.rating;
+  return j;
+}
+
+ordered_json excluded_json(const ExcludedMeasurement& e, const Places& p) {
+  ordered_json j;
+  if (e.ticket) j["ticket"] = *e.ticket;
+  if (e.platform) j["platform"] = *e.platform;
+  if (e.field) j["field"] = *e.field;
+  j["entered"] = round_to(e.entered, e.field ? p.length : p.weight);
   return j;
 }
 
@@ -102,8 +131,13 @@ ordered_json flag_json(const Flag& f, const Places& p) {
 ordered_json result_to_json(const ReconcileResult& r) {
   const Places p = places_for(r.units);
   ordered_json j;
+  j["verdict"] = to_string(r.verdict);
+  j["verdict_reason"] = r.verdict_reason;
   j["units"] = {{"weight", to_string(r.units.weight)}, {"length", to_string(r.units.length)}};
   j["moment_unit"] = r.moment_unit;
+  j["uncertainty"] = kUncertaintyNote;
+  j["tow_steer"] = est(r.tow_steer, p.weight);
+  j["tow_drive"] = est(r.tow_drive, p.weight);
   j["tongue_load"] = est(r.tongue_load, p.weight);
   j["trailer_weight"] = est(r.trailer_weight, p.weight);
   j["tongue_percent"] = est(r.tongue_percent, p.percent);
@@ -120,6 +154,7 @@ ordered_json result_to_json(const ReconcileResult& r) {
     tj["steer"] = est(t.steer, p.weight);
     tj["drive"] = est(t.drive, p.weight);
     tj["trailer"] = est(t.trailer, p.weight);
+    if (t.note) tj["note"] = *t.note;
     tensioned.push_back(tj);
   }
   j["tensioned"] = tensioned;
@@ -149,6 +184,12 @@ ordered_json result_to_json(const ReconcileResult& r) {
   j["compliance"] = compliance;
   j["travel_pass"] = r.travel_pass.empty() ? ordered_json(nullptr) : ordered_json(r.travel_pass);
   j["unsolved"] = r.unsolved;
+  if (r.if_excluded && r.if_excluded->result) {
+    j["if_excluded"] = {{"excluded", excluded_json(r.if_excluded->excluded, p)},
+                        {"result", result_to_json(*r.if_excluded->result)}};
+  } else {
+    j["if_excluded"] = nullptr;
+  }
   return j;
 }
 
@@ -355,6 +396,20 @@ void put_target(std::string& o, const TargetResult& t, const Places& p) {
   put_est(o, t.ball_load, p.weight);
   o += ",\"note\":";
   put_string(o, t.note);
+  o += ",\"provisional\":";
+  put_bool(o, t.provisional);
+  o += ",\"whole_step\":";
+  if (t.whole_step) {
+    o += "{\"lower\":";
+    put_rounded(o, t.whole_step->lower, 2);
+    o += ",\"upper\":";
+    put_rounded(o, t.whole_step->upper, 2);
+    o += ",\"try_first\":";
+    put_rounded(o, t.whole_step->try_first, 2);
+    o += '}';
+  } else {
+    o += "null";
+  }
   o += '}';
 }
 
@@ -381,6 +436,36 @@ void put_flag(std::string& o, const Flag& f, const Places& p) {
     o += ",\"needed\":";
     put_rounded(o, *f.needed, f.field ? p.length : p.weight);
   }
+  if (f.rating) {
+    o += ",\"rating\":";
+    put_string(o, *f.rating);
+  }
+  o += '}';
+}
+
+void put_excluded(std::string& o, const ExcludedMeasurement& e, const Places& p) {
+  char sep = '{';
+  auto key = [&](const char* k) {
+    o += sep;
+    o += '"';
+    o += k;
+    o += "\":";
+    sep = ',';
+  };
+  if (e.ticket) {
+    key("ticket");
+    put_string(o, *e.ticket);
+  }
+  if (e.platform) {
+    key("platform");
+    put_string(o, *e.platform);
+  }
+  if (e.field) {
+    key("field");
+    put_string(o, *e.field);
+  }
+  key("entered");
+  put_rounded(o, e.entered, e.field ? p.length : p.weight);
   o += '}';
 }
 
@@ -401,6 +486,10 @@ void put_tensioned(std::string& o, const TensionedResult& t, const Places& p) {
   put_est(o, t.drive, p.weight);
   o += ",\"trailer\":";
   put_est(o, t.trailer, p.weight);
+  if (t.note) {
+    o += ",\"note\":";
+    put_string(o, *t.note);
+  }
   o += '}';
 }
 
@@ -436,12 +525,22 @@ void put_array(std::string& o, const std::vector<T>& items, Put put) {
 
 void append_result_json(std::string& o, const ReconcileResult& r) {
   const Places p = places_for(r.units);
-  o += "{\"units\":{\"weight\":";
+  o += "{\"verdict\":";
+  put_string(o, to_string(r.verdict));
+  o += ",\"verdict_reason\":";
+  put_string(o, r.verdict_reason);
+  o += ",\"units\":{\"weight\":";
   put_string(o, to_string(r.units.weight));
   o += ",\"length\":";
   put_string(o, to_string(r.units.length));
   o += "},\"moment_unit\":";
   put_string(o, r.moment_unit);
+  o += ",\"uncertainty\":";
+  put_string(o, std::string_view(kUncertaintyNote));
+  o += ",\"tow_steer\":";
+  put_est(o, r.tow_steer, p.weight);
+  o += ",\"tow_drive\":";
+  put_est(o, r.tow_drive, p.weight);
   o += ",\"tongue_load\":";
   put_est(o, r.tongue_load, p.weight);
   o += ",\"trailer_weight\":";
@@ -486,6 +585,16 @@ void append_result_json(std::string& o, const ReconcileResult& r) {
     put_string(o, r.travel_pass);
   o += ",\"unsolved\":";
   put_array(o, r.unsolved, [&](const std::string& u) { put_string(o, u); });
+  o += ",\"if_excluded\":";
+  if (r.if_excluded && r.if_excluded->result) {
+    o += "{\"excluded\":";
+    put_excluded(o, r.if_excluded->excluded, p);
+    o += ",\"result\":";
+    append_result_json(o, *r.if_excluded->result);
+    o += '}';
+  } else {
+    o += "null";
+  }
   o += '}';
 }
 

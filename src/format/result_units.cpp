@@ -109,6 +109,11 @@ ReconcileResult convert_result_units(const ReconcileResult& in, UnitSystem syste
     c.u *= wf;
     c.margin *= wf;
   }
+  if (r.if_excluded && r.if_excluded->result) {
+    r.if_excluded->excluded.entered *= r.if_excluded->excluded.field ? lf : wf;
+    r.if_excluded->result =
+        std::make_shared<const ReconcileResult>(convert_result_units(*r.if_excluded->result, system));
+  }
   return r;
 }
 

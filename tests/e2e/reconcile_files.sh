@@ -12,15 +12,18 @@ for want in "Readings (lb)" "± is 2u" "Tongue load, bars slack" "Fit test" "Fla
 done
 grep -q $'\033\[' "$WORK/out" && fail "colour codes in non-terminal output"
 
-# --json: the keys of issue #2, numbers, no NaN.
+# --json: the keys of issues #2 and #12 (verdict first, tow vehicle alone), numbers, no NaN.
 expect_exit 0 "$SCALEPROOF" reconcile --json "$D/good-lb-three-settings.json"
 python3 - "$WORK/out" <<'PY'
 import json, sys
 j = json.load(open(sys.argv[1]))
-want = ["units", "moment_unit", "tongue_load", "trailer_weight", "tongue_percent",
+want = ["verdict", "verdict_reason", "units", "moment_unit", "uncertainty", "tow_steer",
+        "tow_drive", "tongue_load", "trailer_weight", "tongue_percent",
         "rear_axle_to_ball", "ball_to_axle", "tensioned", "target", "fit", "flags",
-        "compliance", "travel_pass", "unsolved"]
+        "compliance", "travel_pass", "unsolved", "if_excluded"]
 assert list(j) == want, list(j)
+assert j["verdict"] in ("compliant", "over", "undecided", "not-proven"), j["verdict"]
+assert set(j["tow_steer"]) == {"value", "u"}
 assert j["units"] == {"weight": "lb", "length": "in"}, j["units"]
 assert j["moment_unit"] == "lbf·ft", j["moment_unit"]
 assert set(j["tongue_load"]) == {"value", "u"}

@@ -76,13 +76,20 @@ const char* kSession = R"({"format":"scaleproof-session/1","units":{"weight":"lb
 
 }  // namespace
 
-TEST_CASE("result JSON has exactly the keys of issue #2, in order") {
+TEST_CASE("result JSON has exactly the keys of issues #2 and #12, in order") {
   const ordered_json j = sp::result_to_json(solved_result());
-  CHECK(keys_of(j) == std::vector<std::string>{"units", "moment_unit", "tongue_load",
+  // Issue #12: the verdict leads; the tow-vehicle-alone loads and what u means are inside.
+  CHECK(keys_of(j) == std::vector<std::string>{"verdict", "verdict_reason", "units",
+                                               "moment_unit", "uncertainty", "tow_steer",
+                                               "tow_drive", "tongue_load",
                                                "trailer_weight", "tongue_percent",
                                                "rear_axle_to_ball", "ball_to_axle", "tensioned",
                                                "target", "fit", "flags", "compliance",
-                                               "travel_pass", "unsolved"});
+                                               "travel_pass", "unsolved", "if_excluded"});
+  CHECK(j["verdict"] == "not-proven");  // a hand-built result without a verdict decided
+  CHECK(j["if_excluded"].is_null());
+  CHECK(j["target"]["provisional"] == false);
+  CHECK(j["target"]["whole_step"].is_null());
   CHECK(keys_of(j["tongue_load"]) == std::vector<std::string>{"value", "u"});
   CHECK(keys_of(j["ball_to_axle"]) == std::vector<std::string>{"value", "u", "entered"});
   CHECK(keys_of(j["tensioned"][0]) ==
@@ -231,6 +238,36 @@ TEST_CASE("append_result_json writes exactly the bytes of result_to_json().dump(
   odd.flags.push_back(n);
   odd.unsolved = {"", "x"};
   cases.push_back(odd);
+  // Issue #12 shapes: verdict, notes, rating-over, whole steps, provisional, if_excluded.
+  sp::ReconcileResult v = solved_result();
+  v.verdict = sp::Verdict::over;
+  v.verdict_reason = "Tongue load vs hitch rating (1000 ± 22 lb against 900 lb) is over.";
+  v.tensioned[0].note = "ticket A-3: the bar moment comes out below zero";
+  v.target->provisional = true;
+  v.target->whole_step = sp::WholeStepSetting{4, 5, 4};
+  sp::Flag over;
+  over.code = sp::kRatingOverFlag;
+  over.severity = sp::Severity::error;
+  over.message = "over";
+  over.ticket = "A-3";
+  over.rating = "hitch_tongue_rating";
+  v.flags.push_back(over);
+  cases.push_back(v);
+  for (const bool field : {false, true}) {
+    sp::ReconcileResult w = v;
+    sp::ExcludedMeasurement ex;
+    if (field) {
+      ex.field = "ball_to_axle";
+      ex.entered = 156.04;
+    } else {
+      ex.ticket = "A-3";
+      ex.platform = "drive";
+      ex.entered = 4545;
+    }
+    w.if_excluded = sp::IfExcluded{ex, std::make_shared<const sp::ReconcileResult>(odd)};
+    cases.push_back(w);
+  }
+  cases.push_back(sp::reconcile(sp::parse_session_json(kSession, "rig.json")));
   for (const sp::LengthUnit lu : {sp::LengthUnit::in, sp::LengthUnit::ft, sp::LengthUnit::cm,
                                   sp::LengthUnit::m}) {
     sp::ReconcileResult r = solved_result();

@@ -85,7 +85,7 @@ inline ReconcileResult fixture_result() {
   r.compliance.push_back({"front_gawr", "Steer axle vs front GAWR", 4800, 4000, 6, 800, ComplianceStatus::within});
   r.flags.push_back({"under-restored", Severity::warning,
                      "Setting 2 restores 40 % of the steer-axle load; the target is 50 %.", "LF-70103",
-                     std::nullopt, std::nullopt, std::nullopt});
+                     std::nullopt, std::nullopt, std::nullopt, std::nullopt});
   r.travel_pass = "LF-70103";
   return r;
 }
