@@ -12,10 +12,12 @@ namespace sp::cli {
 
 namespace {
 
+// --units solves the session converted to the target system, so every number, also those in
+// flag messages and the verdict reason, is in the units asked for (format/result_units.h).
 ReconcileResult solve(const Session& session, const ReconcileOutputOptions& options) {
-  ReconcileResult r = reconcile(session);
-  if (auto system = parse_unit_system(options.units)) r = convert_result_units(r, *system);
-  return r;
+  if (auto system = parse_unit_system(options.units))
+    return reconcile(convert_session_units(session, *system));
+  return reconcile(session);
 }
 
 }  // namespace
@@ -31,8 +33,8 @@ std::string render_reconciled(const Session& session, const std::string& source,
   return render_result_text(session, solve(session, options), TextOptions{source, options.colour});
 }
 
-int print_reconciled(const std::vector<SessionInput>& inputs,
-                     const ReconcileOutputOptions& options, std::ostream& out, std::ostream& err) {
+int print_reconciled(const std::vector<SessionInput>& inputs, const ReconcileOutputOptions& options,
+                     std::ostream& out, std::ostream& err) {
   int worst = 0;
   const bool array = options.json && inputs.size() > 1;
   nlohmann::ordered_json items = nlohmann::ordered_json::array();

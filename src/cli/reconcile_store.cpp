@@ -35,7 +35,8 @@ constexpr std::size_t kTextLineBytes = 128;
 
 std::string summary_line(long long id, const ReconcileResult& r) {
   auto wu = to_string(r.units.weight);
-  std::string line = fmt::format("session {}:", id);
+  // The verdict leads, as on every surface (engine/result.h).
+  std::string line = fmt::format("session {}: {};", id, to_string(r.verdict));
   if (r.tongue_load) {
     line += fmt::format(" tongue {:.0f} ± {:.0f} {}", r.tongue_load->value, 2 * r.tongue_load->u, wu);
     if (r.tongue_percent) line += fmt::format(" ({:.1f} %)", r.tongue_percent->value);

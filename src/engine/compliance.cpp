@@ -48,7 +48,10 @@ int add_compliance(const RigFit& fit, ReconcileResult& out) {
        [&] { return trailer_weight; }},
       {"trailer_axle_gawr", "Trailer axles vs trailer axle GAWR", s.trailer.axle_gawr,
        [&] { return load(2); }},
-      {"hitch_tongue_rating", "Tongue load (bars slack) vs hitch tongue rating",
+      {"hitch_tongue_rating",
+       s.trailer.type == TrailerType::fifth_wheel
+           ? "Pin load vs hitch pin-weight rating"
+           : "Tongue load (bars slack) vs hitch tongue rating",
        s.tow_vehicle.hitch_tongue_rating, [&] { return tongue; }},
       {"hitch_trailer_rating", "Trailer weight vs hitch trailer rating",
        s.tow_vehicle.hitch_trailer_rating, [&] { return trailer_weight; }},
@@ -59,9 +62,12 @@ int add_compliance(const RigFit& fit, ReconcileResult& out) {
     const auto v = r.value();
     if (!v) {
       ++unsolved;
-      out.unsolved.push_back(fmt::format(
-          "{}: the value is not solved from these passes{}", r.rating,
-          tc ? "" : "; weigh the rig hitched (bars slack, then tensioned as it travels)"));
+      out.unsolved.push_back(
+          fmt::format("{}: the value is not solved from these passes{}", r.rating,
+                      tc ? ""
+                      : s.trailer.type == TrailerType::fifth_wheel
+                          ? "; weigh the rig hitched"
+                          : "; weigh the rig hitched (bars slack, then tensioned as it travels)"));
       continue;
     }
     ComplianceRow c;

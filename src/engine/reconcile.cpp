@@ -77,11 +77,17 @@ std::optional<std::string> negative_note(const TensionedResult& t, bool fit_fail
 }
 
 // Which pass would make the slack tongue load solvable.
+// A fifth wheel has no bars: "hitched" is the whole story.
+std::string hitched_words(const Session& s) {
+  return s.trailer.type == TrailerType::fifth_wheel ? "weigh the rig hitched"
+                                                    : "weigh the rig hitched with the bars slack";
+}
+
 std::string tongue_advice(const RigFit& fit) {
   if (fit.unhitched.empty()) return "no unhitched pass; weigh the tow vehicle alone";
   if (fit.hitched.empty() && fit.tensioned.empty())
-    return "no hitched pass; weigh the rig hitched with the bars slack";
-  return "the passes do not determine it; weigh the rig hitched with the bars slack";
+    return "no hitched pass; " + hitched_words(*fit.session);
+  return "the passes do not determine it; " + hitched_words(*fit.session);
 }
 
 }  // namespace
@@ -114,14 +120,13 @@ ReconcileResult reconcile(const Session& session, const ReconcileOptions& option
   out.trailer_weight = estimate(fit, trailer_weight(fit));
   out.tongue_percent = estimate(fit, tongue_percent(fit));
   const std::string tongue_name =
-      session.trailer.type == TrailerType::fifth_wheel ? "pin (tongue) load" : "tongue load";
+      session.trailer.type == TrailerType::fifth_wheel ? "pin load" : "tongue load";
   if (!out.tongue_load) out.unsolved.push_back(tongue_name + ": " + tongue_advice(fit));
   if (!out.trailer_weight) {
     const bool no_trailer_reading = fit.hitched.empty() && fit.tensioned.empty();
-    out.unsolved.push_back(std::string("trailer weight: ") +
-                           (no_trailer_reading ? "no hitched pass; weigh the rig hitched with the "
-                                                 "bars slack"
-                                               : tongue_advice(fit)));
+    out.unsolved.push_back(
+        std::string("trailer weight: ") +
+        (no_trailer_reading ? "no hitched pass; " + hitched_words(session) : tongue_advice(fit)));
   }
   if (!out.tongue_percent && out.trailer_weight)
     out.unsolved.push_back("tongue percent: trailer weight is zero");

@@ -73,8 +73,7 @@ VerdictDecision decide_verdict(const ReconcileResult& r, int ratings_unsolved) {
   if (!r.fit || r.fit->dof <= 0) {
     return {Verdict::not_proven,
             "The fit test could not run: these passes give no more readings than unknowns, so "
-            "no reading is cross-checked; weigh the rig unhitched, hitched with the bars slack "
-            "and as it travels."};
+            "no reading is cross-checked; weigh the rig unhitched, then hitched as it travels."};
   }
   if (!r.fit->passed) return {Verdict::not_proven, failed_reason(r)};
 

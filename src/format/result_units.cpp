@@ -59,6 +59,29 @@ void convert_rig_units(TowVehicle& tow, Trailer& trailer, const Units& from, con
   w(trailer.axle_gawr);
 }
 
+Session convert_session_units(const Session& in, UnitSystem system) {
+  const Units to = units_of(system);
+  Session s = in;
+  const double wf = weight_factor(in.units.weight, to.weight);
+  const double lf = length_factor(in.units.length, to.length);
+  auto w = [wf](std::optional<double>& v) {
+    if (v) *v *= wf;
+  };
+  s.units = to;
+  s.scale.division *= wf;
+  w(s.scale.reading_uncertainty);
+  w(s.scale.capacity);
+  convert_rig_units(s.tow_vehicle, s.trailer, in.units, to);
+  if (s.length_uncertainty) *s.length_uncertainty *= lf;
+  for (Pass& p : s.passes) {
+    p.steer *= wf;
+    p.drive *= wf;
+    w(p.trailer);
+    w(p.gross);
+  }
+  return s;
+}
+
 ReconcileResult convert_result_units(const ReconcileResult& in, UnitSystem system) {
   const Units to = units_of(system);
   ReconcileResult r = in;
@@ -111,8 +134,8 @@ ReconcileResult convert_result_units(const ReconcileResult& in, UnitSystem syste
   }
   if (r.if_excluded && r.if_excluded->result) {
     r.if_excluded->excluded.entered *= r.if_excluded->excluded.field ? lf : wf;
-    r.if_excluded->result =
-        std::make_shared<const ReconcileResult>(convert_result_units(*r.if_excluded->result, system));
+    r.if_excluded->result = std::make_shared<const ReconcileResult>(
+        convert_result_units(*r.if_excluded->result, system));
   }
   return r;
 }
