@@ -40,13 +40,13 @@ struct Inspection {
 
 // What verifying a signed report established (filled by the report verifier's loader).
 struct VerificationFacts {
-  bool record_signature_ok = false;    // the embedded weigh record's signature holds
-  std::string key_fingerprint;         // of the key that signed it (report/signer.h format)
-  bool key_trusted = false;            // that fingerprint is among the insurer's --trust keys
-  bool detached_present = false;       // a "<report>.pdf.sig" lay beside the PDF
-  bool detached_ok = false;            // ... and it verifies the PDF's bytes with that key
-  bool record_matches = true;          // stated results equal the recomputation
-  std::vector<std::string> mismatches; // one line per differing result, when not
+  bool record_signature_ok = false;     // the embedded weigh record's signature holds
+  std::string key_fingerprint;          // of the key that signed it (report/signer.h format)
+  bool key_trusted = false;             // that fingerprint is among the insurer's --trust keys
+  bool detached_present = false;        // a "<report>.pdf.sig" lay beside the PDF
+  bool detached_ok = false;             // ... and it verifies the PDF's bytes with that key
+  bool record_matches = true;           // stated results equal the recomputation
+  std::vector<std::string> mismatches;  // one line per differing result, when not
 };
 
 struct AuditItem {
@@ -112,6 +112,10 @@ struct ItemAudit {
   std::string claim;
   ItemKind kind = ItemKind::session;
   std::string label;  // "session 12 at scale ST-3, 2026-10-14" etc.
+  // The engine's verdict on the weighing (engine/result.h), in the audit's own reading: for a
+  // report, that of the recomputed results; not-proven when it could not be reconciled.
+  Verdict verdict = Verdict::not_proven;
+  std::string verdict_reason;
   WeightUnit weight_unit = WeightUnit::lb;
   std::vector<Finding> findings;
   int count(Severity s) const;

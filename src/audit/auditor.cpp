@@ -33,7 +33,9 @@ struct Occurrence {
   double steer = 0, drive = 0, trailer = 0;
 };
 
-int rank(std::optional<Severity> s) { return s ? static_cast<int>(*s) : 3; }
+int rank(std::optional<Severity> s) {
+  return s ? static_cast<int>(*s) : 3;
+}
 
 void sort_findings(ItemAudit& ia) {
   std::stable_sort(ia.findings.begin(), ia.findings.end(), [](const Finding& a, const Finding& b) {
@@ -71,7 +73,9 @@ void Auditor::limit_reuse_to(std::vector<std::string> tickets) {
                                    std::make_move_iterator(tickets.end()));
 }
 
-void Auditor::on_final(std::function<void(ItemAudit&&)> sink) { state_->sink = std::move(sink); }
+void Auditor::on_final(std::function<void(ItemAudit&&)> sink) {
+  state_->sink = std::move(sink);
+}
 
 Auditor::Auditor(AuditOptions options) : state_(std::make_unique<State>()) {
   state_->options = std::move(options);
@@ -87,6 +91,17 @@ void Auditor::add(const AuditItem& item) {
   ia.claim = item.claim;
   ia.kind = item.kind;
   ia.label = item_label(item);
+  if (item.result) {
+    ia.verdict = item.result->verdict;
+    ia.verdict_reason = item.result->verdict_reason;
+  } else {
+    ia.verdict = Verdict::not_proven;
+    ia.verdict_reason =
+        item.reconcile_error
+            ? "The weighing could not be reconciled: " + *item.reconcile_error +
+                  (!item.reconcile_error->empty() && item.reconcile_error->back() == '.' ? "" : ".")
+            : "The weighing was not reconciled.";
+  }
   ia.weight_unit = item.session.units.weight;
   ia.findings = audit_item(item, st.options);
 
@@ -150,13 +165,13 @@ void Auditor::add(const AuditItem& item) {
     auto make = [&](const std::string& elsewhere, const std::string& elsewhere_claim) {
       Finding f = detail::make_finding(
           "ticket-reuse", Severity::error,
-          fmt::format("{} {} of scale {} also {} in {}{}, {}. A scale numbers each ticket once, "
-                      "so the two cannot both be the weighing they claim to be.",
-                      r.tickets.size() == 1 ? "Ticket" : "Tickets", tickets, scales,
-                      r.tickets.size() == 1 ? "appears" : "appear", elsewhere,
-                      cross_claim ? " (claim " + elsewhere_claim + ")" : std::string(),
-                      r.identical ? "with the same times and readings"
-                                  : "with other times or readings"),
+          fmt::format(
+              "{} {} of scale {} also {} in {}{}, {}. A scale numbers each ticket once, "
+              "so the two cannot both be the weighing they claim to be.",
+              r.tickets.size() == 1 ? "Ticket" : "Tickets", tickets, scales,
+              r.tickets.size() == 1 ? "appears" : "appear", elsewhere,
+              cross_claim ? " (claim " + elsewhere_claim + ")" : std::string(),
+              r.identical ? "with the same times and readings" : "with other times or readings"),
           "one ticket number per weighing at one scale (common practice)");
       f.ticket = r.tickets.front();
       f.values = {detail::text_value("tickets", tickets), detail::text_value("scale", scales),

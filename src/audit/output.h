@@ -9,7 +9,7 @@
 //    "limits": {"max_span_minutes", "inspection_months", "stale_days", "future_slack_minutes"},
 //    "trusted_keys": [fingerprint...],
 //    "summary": {"items", "errors", "warnings", "notes", "clean", "unreadable"},
-//    "items": [{"source", "claim", "kind", "label", "worst" (or null),
+//    "items": [{"source", "claim", "kind", "label", "verdict", "verdict_reason", "worst" (or null),
 //               "findings": [{"code", "severity", "message", "ticket", "platform", "rule",
 //                             "evidence": [{"name", "text", "value", "unit"}]}]}],
 //    "unreadable": [{"source", "message"}],

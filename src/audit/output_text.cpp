@@ -109,8 +109,11 @@ std::string audit_text_item(const ItemAudit& ia, bool colour) {
       plural(static_cast<std::size_t>(ia.count(Severity::warning)), "warning", "warnings"),
       plural(static_cast<std::size_t>(ia.count(Severity::note)), "note", "notes"));
   for (const auto& l : wrap(counts, kWidth - 3)) out += "   " + l + "\n";
-  out += fmt::format("   {:<8} {:<22} {:<10} {}\n", "severity", "finding", "ticket",
-                     "what it means");
+  for (const auto& l : wrap(
+           "verdict: " + std::string(to_string(ia.verdict)) + ". " + ia.verdict_reason, kWidth - 3))
+    out += "   " + l + "\n";
+  out +=
+      fmt::format("   {:<8} {:<22} {:<10} {}\n", "severity", "finding", "ticket", "what it means");
   const std::string indent(3 + 9 + 23 + 11, ' ');
   for (const auto& f : ia.findings) {
     auto lines = wrap(f.message, kWidth - indent.size());
@@ -132,7 +135,12 @@ std::string audit_text_item(const ItemAudit& ia, bool colour) {
 }
 
 std::string audit_text_clean_line(const ItemAudit& ia) {
-  return fmt::format("  {} ({}): {}\n", ia.source, to_string(ia.kind), ia.label);
+  const auto lines = wrap(fmt::format("{} ({}): {}; verdict {}", ia.source, to_string(ia.kind),
+                                      ia.label, to_string(ia.verdict)),
+                          kWidth - 4);
+  std::string out;
+  for (std::size_t i = 0; i < lines.size(); ++i) out += (i == 0 ? "  " : "    ") + lines[i] + "\n";
+  return out;
 }
 
 std::string audit_text_tail(std::size_t clean, const std::vector<std::string>& clean_lines,
@@ -143,8 +151,8 @@ std::string audit_text_tail(std::size_t clean, const std::vector<std::string>& c
     if (clean <= max_clean_lines) {
       for (const auto& l : clean_lines) out += l;
     } else {
-      out += fmt::format("  {} items, not listed one by one (use --json for the full list)\n",
-                         clean);
+      out +=
+          fmt::format("  {} items, not listed one by one (use --json for the full list)\n", clean);
     }
   }
   out += "\nCautions:\n";
@@ -180,6 +188,8 @@ nlohmann::ordered_json audit_json_item(const ItemAudit& ia) {
   item["claim"] = ia.claim;
   item["kind"] = std::string(to_string(ia.kind));
   item["label"] = ia.label;
+  item["verdict"] = std::string(to_string(ia.verdict));
+  item["verdict_reason"] = ia.verdict_reason;
   auto w = ia.worst();
   item["worst"] = w ? J(std::string(to_string(*w))) : J(nullptr);
   J findings = J::array();
@@ -218,14 +228,15 @@ nlohmann::ordered_json audit_json(const AuditReport& rep) {
                    {"stale_days", o.stale_days},
                    {"future_slack_minutes", o.future_slack_minutes}};
   doc["trusted_keys"] = rep.trusted_keys;
-  doc["summary"] = {{"items", r.items.size()},      {"errors", r.errors},
-                    {"warnings", r.warnings},       {"notes", r.notes},
-                    {"clean", r.clean_items},       {"unreadable", rep.unreadable.size()}};
+  doc["summary"] = {{"items", r.items.size()}, {"errors", r.errors},
+                    {"warnings", r.warnings},  {"notes", r.notes},
+                    {"clean", r.clean_items},  {"unreadable", rep.unreadable.size()}};
   J items = J::array();
   for (const auto& ia : r.items) items.push_back(audit_json_item(ia));
   doc["items"] = std::move(items);
   J unread = J::array();
-  for (const auto& u : rep.unreadable) unread.push_back({{"source", u.source}, {"message", u.message}});
+  for (const auto& u : rep.unreadable)
+    unread.push_back({{"source", u.source}, {"message", u.message}});
   doc["unreadable"] = std::move(unread);
   doc["cautions"] = audit_cautions();
   return doc;

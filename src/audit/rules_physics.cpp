@@ -9,11 +9,14 @@
 //   compliance-over      error    a rating exceeded beyond the measurement uncertainty
 //   compliance-undecided warning  a rating within reach of the uncertainty (engine: GUM k = 2)
 //   weight-drift         error    the rig's total changes between hitched/tensioned passes by
-//                                 more than the scale tolerances allow
+//                                 more than the scale tolerances allow (passes whose reading the
+//                                 engine already named as inconsistent are left out: one
+//                                 finding per cause, so one keying error is one finding)
 //   stale-weighing       warning  weighing more than --stale-days before --claim-date
 //   weighed-after-claim  note     the weighing is later than the claim date
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 
 #include "audit/rules_internal.h"
@@ -35,7 +38,7 @@ double reading_tolerance(ScaleClass c, double reading, double division) {
 // of two totals the root-sum-square of the two passes' allowances. A larger difference means
 // someone or something got on or off between the passes.
 void weight_drift_rule(const Session& s, const std::vector<TimedPass>& live,
-                       std::vector<Finding>& out) {
+                       const std::vector<std::string>& named, std::vector<Finding>& out) {
   const double d = s.scale.division;
   if (!(d > 0)) return;
   const ScaleClass c = parse_scale_class(s.scale.accuracy_class).value_or(ScaleClass::hb44_iii_l);
@@ -47,6 +50,7 @@ void weight_drift_rule(const Session& s, const std::vector<TimedPass>& live,
   for (const auto& tp : live) {
     const Pass& p = *tp.pass;
     if (p.kind == PassKind::unhitched || !p.trailer) continue;
+    if (std::find(named.begin(), named.end(), p.ticket) != named.end()) continue;
     const double ts = reading_tolerance(c, p.steer, d);
     const double td = reading_tolerance(c, p.drive, d);
     const double tt = reading_tolerance(c, *p.trailer, d);
@@ -89,12 +93,18 @@ void weight_drift_rule(const Session& s, const std::vector<TimedPass>& live,
   out.push_back(std::move(f));
 }
 
+void unsolved_rules(const ReconcileResult& r, std::vector<Finding>& out) {
+  for (const std::string& line : r.unsolved) {
+    out.push_back(make_finding("not-solved", Severity::note, line,
+                               "the engine solves only what the passes determine"));
+  }
+}
+
 void engine_rules(const AuditItem& item, std::vector<Finding>& out) {
   if (item.reconcile_error) {
-    out.push_back(make_finding(
-        "unsolvable", Severity::error,
-        "The weighing could not be reconciled: " + *item.reconcile_error,
-        "the engine must solve the session (scaleproof reconcile)"));
+    out.push_back(make_finding("unsolvable", Severity::error,
+                               "The weighing could not be reconciled: " + *item.reconcile_error,
+                               "the engine must solve the session (scaleproof reconcile)"));
     return;
   }
   if (!item.result) return;
@@ -115,41 +125,63 @@ void engine_rules(const AuditItem& item, std::vector<Finding>& out) {
     }
     out.push_back(std::move(f));
   }
-  for (const ComplianceRow& row : r.compliance) {
+  // On a failed fit the ratings follow from the value the fit rejects: that is one cause, and
+  // one finding (above). What the ratings would be without it (the engine's if_excluded
+  // re-solve) is told as a warning, since it rests on that value being the error.
+  const bool failed = r.fit && !r.fit->passed;
+  const ReconcileResult* judged = &r;
+  std::string prefix;
+  if (failed) {
+    if (!r.if_excluded || !r.if_excluded->result) return unsolved_rules(r, out);
+    judged = r.if_excluded->result.get();
+    const ExcludedMeasurement& ex = r.if_excluded->excluded;
+    prefix = "If " +
+             (ex.field ? "the tape length " + *ex.field
+                       : "the " + ex.platform.value_or("") + " reading of ticket " +
+                             ex.ticket.value_or("")) +
+             " is the error (re-solved without it; not proven): ";
+  }
+  for (const ComplianceRow& row : judged->compliance) {
     if (row.status == ComplianceStatus::within) continue;
     const bool over = row.status == ComplianceStatus::over;
     const WeightUnit u = r.units.weight;
     Finding f = make_finding(
-        over ? "compliance-over" : "compliance-undecided", over ? Severity::error : Severity::warning,
-        over ? fmt::format("{}: {} ± {} exceeds the rating {} by {}, beyond the measurement "
-                           "uncertainty.",
-                           row.label, weight_text(row.value, u), weight_text(2 * row.u, u),
-                           weight_text(row.limit, u), weight_text(-row.margin, u))
-             : fmt::format("{}: {} ± {} against the rating {} (margin {}): within reach of the "
-                           "measurement uncertainty, so the weighing cannot show it is within.",
-                           row.label, weight_text(row.value, u), weight_text(2 * row.u, u),
-                           weight_text(row.limit, u), weight_text(row.margin, u)),
+        over ? "compliance-over" : "compliance-undecided",
+        over && !failed ? Severity::error : Severity::warning,
+        prefix +
+            (over
+                 ? fmt::format("{}: {} ± {} exceeds the rating {} by {}, beyond the measurement "
+                               "uncertainty.",
+                               row.label, weight_text(row.value, u), weight_text(2 * row.u, u),
+                               weight_text(row.limit, u), weight_text(-row.margin, u))
+                 : fmt::format("{}: {} ± {} against the rating {} (margin {}): within reach of the "
+                               "measurement uncertainty, so the weighing cannot show it is within.",
+                               row.label, weight_text(row.value, u), weight_text(2 * row.u, u),
+                               weight_text(row.limit, u), weight_text(row.margin, u))),
         "over: value - 2u > limit; undecided: neither that nor value + 2u <= limit (JCGM "
         "100:2008 §6.3, k = 2)");
-    if (!r.travel_pass.empty()) f.ticket = r.travel_pass;
+    if (!judged->travel_pass.empty()) f.ticket = judged->travel_pass;
     f.values = {text_value("rating", row.rating), weight_value("limit", row.limit, u),
                 weight_value("value", row.value, u), weight_value("2u", 2 * row.u, u),
                 weight_value("margin", row.margin, u)};
     out.push_back(std::move(f));
   }
-  for (const std::string& line : r.unsolved) {
-    out.push_back(make_finding("not-solved", Severity::note, line,
-                               "the engine solves only what the passes determine"));
-  }
+  unsolved_rules(r, out);
 }
 
 }  // namespace
 
-void physics_rules(const AuditItem& item, const AuditOptions& o,
-                   const std::vector<TimedPass>& live, std::vector<Finding>& out) {
+void physics_rules(const AuditItem& item, const AuditOptions& o, const std::vector<TimedPass>& live,
+                   std::vector<Finding>& out) {
   (void)o;
   engine_rules(item, out);
-  weight_drift_rule(item.session, live, out);
+  // A reading the engine's measurement test named explains a total that moved: that pass's
+  // error is already one finding (inconsistent-reading), so the drift rule weighs the others.
+  std::vector<std::string> named;
+  if (item.result)
+    for (const Flag& fl : item.result->flags)
+      if (fl.code == "inconsistent-reading" && fl.ticket) named.push_back(*fl.ticket);
+  weight_drift_rule(item.session, live, named, out);
 }
 
 void timing_rules(const AuditItem& item, const AuditOptions& o, const std::vector<TimedPass>& live,
@@ -174,8 +206,7 @@ void timing_rules(const AuditItem& item, const AuditOptions& o, const std::vecto
         fmt::format("The weighing ({}) is {} days before the claim date {}, more than {} days: "
                     "the load may have changed since.",
                     format_date(*last), age, *o.claim_date, o.stale_days),
-        fmt::format("weighing at most {} days before the claim date (--stale-days)",
-                    o.stale_days));
+        fmt::format("weighing at most {} days before the claim date (--stale-days)", o.stale_days));
     f.values = {text_value("weighed", format_date(*last)), text_value("claim date", *o.claim_date),
                 number_value("age", static_cast<double>(age), "days", 0),
                 number_value("limit", o.stale_days, "days", 0)};
