@@ -39,23 +39,28 @@ std::string check_date(const std::string& v) {
 std::string check_time(const std::string& v) {
   return audit::parse_date_time(v) ? ""
                                    : "expected a date-time YYYY-MM-DDThh:mm:ss with Z or an "
-                                     "offset, got '" + v + "'";
+                                     "offset, got '" +
+                                         v + "'";
 }
 
 }  // namespace
 
 void register_audit(CLI::App& app, Context& ctx) {
-  auto* sub = app.add_subcommand(
-      "audit",
-      "Audit a claim file: weigh-reports, session files or store sessions\n"
-      "  e.g. scaleproof audit claims/4711/ --trust keys/station-3.pub.pem --claim-date 2026-11-02");
-  sub->footer("Examples:\n  scaleproof audit claims/4711/ --trust keys/station.pub.pem --claim-date 2026-11-18\n  scaleproof audit --all --json");
+  auto* sub =
+      app.add_subcommand("audit",
+                         "Audit a claim file: weigh-reports, session files or store sessions\n"
+                         "  e.g. scaleproof audit claims/4711/ --trust keys/station-3.pub.pem "
+                         "--claim-date 2026-11-02");
+  sub->footer(
+      "Examples:\n  scaleproof audit claims/4711/ --trust keys/station.pub.pem --claim-date "
+      "2026-11-18\n  scaleproof audit --all --json");
   auto o = std::make_shared<AuditOpts>();
   auto* paths = sub->add_option("PATH", o->paths,
                                 "Weigh-report PDFs (with their .sig beside them), session files, "
                                 "or folders holding them (one folder = one claim)");
   auto* session = sub->add_option("--session", o->session, "Audit one session of the store (--db)")
-                      ->check(CLI::Range(1LL, 1LL << 53));
+                      ->check(CLI::Range(1LL, 1LL << 53).description(""))
+                      ->type_name("N");  // not CLI11's "INT:INT in [1 - 9007199254740992]"
   auto* all = sub->add_flag("--all", o->all, "Audit every session of the store (--db)");
   paths->excludes(session)->excludes(all);
   session->excludes(all);
@@ -72,16 +77,17 @@ void register_audit(CLI::App& app, Context& ctx) {
   sub->add_option("--inspection-months", o->inspection_months,
                   "A scale inspection must lie within this many months before the weighing")
       ->check(CLI::Range(0, 1200));
-  sub->add_option("--stale-days", o->stale_days,
-                  "Longest time from weighing to --claim-date")
+  sub->add_option("--stale-days", o->stale_days, "Longest time from weighing to --claim-date")
       ->check(CLI::Range(0, 100000));
   sub->add_flag("--json", o->json, "Print the audit as JSON (format scaleproof-audit/1)");
-  sub->add_option("--pdf", o->pdf, "Also write an audit summary PDF to this file (not overwritten)");
+  sub->add_option("--pdf", o->pdf,
+                  "Also write an audit summary PDF to this file (not overwritten)");
 
   sub->callback([o, paths, session, all, &ctx] {
     if (!*paths && !*session && !*all) {
-      throw usage_error("audit: give PATH... (reports, session files, claim folders), "
-                        "--session N or --all");
+      throw usage_error(
+          "audit: give PATH... (reports, session files, claim folders), "
+          "--session N or --all");
     }
     audit::AuditOptions opt;
     if (!o->audit_time.empty()) {
@@ -113,9 +119,9 @@ void register_audit(CLI::App& app, Context& ctx) {
       if (*session) one = o->session;
       std::vector<std::string> keys;
       for (const auto& k : trusted) keys.push_back(k.fingerprint);
-      audit::AuditStreamWriter writer(o->json ? audit::AuditStreamWriter::Format::json
-                                              : audit::AuditStreamWriter::Format::text,
-                                      ctx.colour);
+      audit::AuditStreamWriter writer(
+          o->json ? audit::AuditStreamWriter::Format::json : audit::AuditStreamWriter::Format::text,
+          ctx.colour);
       const audit::AuditResult counts =
           audit::audit_store_streamed(*db, resolve_db_path(ctx), one, opt, keys, writer, std::cout);
       if (o->json) std::cout << "\n";

@@ -11,9 +11,8 @@
 // is recorded.
 // Same input, same key, same options -> byte-identical files (no clock unless --issued-at); a
 // batch writes the same bytes as one `report --session N` per session.
-#include <unistd.h>
-
 #include <sys/stat.h>
+#include <unistd.h>
 
 #include <iostream>
 #include <set>
@@ -85,8 +84,8 @@ class Written {
   bool keep_ = false;
 };
 
-store::IssuedReport report_row(long long session, const report::IssuedReport& rep, const ReportOpts& o,
-                               const report::IssueOptions& opt) {
+store::IssuedReport report_row(long long session, const report::IssuedReport& rep,
+                               const ReportOpts& o, const report::IssueOptions& opt) {
   store::IssuedReport row;
   row.session_id = session;
   row.report_id = rep.id;
@@ -100,10 +99,12 @@ store::IssuedReport report_row(long long session, const report::IssuedReport& re
 // The reports to write, in the order given; usage errors for a wrong combination of options.
 std::vector<Planned> plan_outputs(const ReportOpts& o) {
   const bool from_file = !o.file.empty();
-  if (!from_file && o.sessions.empty()) throw usage_error("report: give a session FILE or --session N");
+  if (!from_file && o.sessions.empty())
+    throw usage_error("report: give a session FILE or --session N");
   if (!o.out_dir.empty()) {
     if (from_file) throw usage_error("report: --out-dir is for --session N...; a FILE takes --out");
-    if (!o.out.empty()) throw usage_error("report: give --out (one report) or --out-dir (one per session), not both");
+    if (!o.out.empty())
+      throw usage_error("report: give --out (one report) or --out-dir (one per session), not both");
     struct stat st {};
     if (::stat(o.out_dir.c_str(), &st) != 0 || !S_ISDIR(st.st_mode)) {
       throw Error(ExitCode::cant_create, o.out_dir + ": --out-dir must be an existing folder");
@@ -111,14 +112,17 @@ std::vector<Planned> plan_outputs(const ReportOpts& o) {
     std::vector<Planned> plan;
     std::set<long long> seen;
     for (long long id : o.sessions) {
-      if (!seen.insert(id).second) throw usage_error("report: session " + std::to_string(id) + " is given twice");
+      if (!seen.insert(id).second)
+        throw usage_error("report: session " + std::to_string(id) + " is given twice");
       const std::string pdf = o.out_dir + "/report-" + std::to_string(id) + ".pdf";
       plan.push_back({id, pdf, pdf + ".sig"});
     }
     return plan;
   }
-  if (o.sessions.size() > 1) throw usage_error("report: several sessions need --out-dir DIR (one report each)");
-  if (o.out.empty()) throw usage_error("report: --out is required (or --out-dir DIR with --session)");
+  if (o.sessions.size() > 1)
+    throw usage_error("report: several sessions need --out-dir DIR (one report each)");
+  if (o.out.empty())
+    throw usage_error("report: --out is required (or --out-dir DIR with --session)");
   return {{from_file ? 0 : o.sessions[0], o.out, o.out + ".sig"}};
 }
 
@@ -126,23 +130,31 @@ std::vector<Planned> plan_outputs(const ReportOpts& o) {
 
 void register_report(CLI::App& app, Context& ctx) {
   auto* sub = app.add_subcommand("report", "Write the signed PDF weigh-report of a session");
-  sub->footer("Examples:\n  scaleproof report --session 1 --key keys/station.key --out report-1.pdf \\\n      --signed-by \"Marit Oyelaran\" --issued-at 2026-10-14T09:50:00-06:00\n  scaleproof report data-demo/sessions/01-pickup-travel-trailer.json --key keys/station.key --out r.pdf");
+  sub->footer(
+      "Examples:\n  scaleproof report --session 1 --key keys/station.key --out report-1.pdf \\\n   "
+      "   --signed-by \"Marit Oyelaran\" --issued-at 2026-10-14T09:50:00-06:00\n  scaleproof "
+      "report data-demo/sessions/01-pickup-travel-trailer.json --key keys/station.key --out r.pdf");
   auto o = std::make_shared<ReportOpts>();
   auto* file = sub->add_option("FILE", o->file, "Session file (scaleproof-session/1 JSON)");
   auto* session = sub->add_option("--session", o->sessions, "Session id(s) in the store")
-                      ->check(CLI::Range(1LL, 1LL << 53));
+                      ->check(CLI::Range(1LL, 1LL << 53).description(""))
+                      ->type_name("N");  // not CLI11's "INT:INT in [1 - 9007199254740992]"
   file->excludes(session);
   sub->add_option("--key", o->key, "Station private key (NAME.key from `key new`)")->required();
   sub->add_option("--out", o->out, "Output PDF; the detached signature goes to OUT.sig");
-  sub->add_option("--out-dir", o->out_dir,
-                  "With --session N...: existing folder for report-N.pdf (+ .sig), one per session");
+  sub->add_option(
+      "--out-dir", o->out_dir,
+      "With --session N...: existing folder for report-N.pdf (+ .sig), one per session");
   sub->add_option("--signed-by", o->signed_by, "Name of the operator who signs");
-  sub->add_option("--paper", o->paper, "Paper size: a4 or letter")->check(CLI::IsMember({"a4", "letter"}));
-  sub->add_option("--issued-at", o->issued_at, "Issue time printed and signed, ISO 8601 "
-                                               "(2026-10-14T10:30:00-05:00); default: none")
+  sub->add_option("--paper", o->paper, "Paper size: a4 or letter")
+      ->check(CLI::IsMember({"a4", "letter"}));
+  sub->add_option("--issued-at", o->issued_at,
+                  "Issue time printed and signed, ISO 8601 "
+                  "(2026-10-14T10:30:00-05:00); default: none")
       ->check([](const std::string& v) {
-        return report::valid_pdf_date(v) ? std::string()
-                                         : "--issued-at: expected YYYY-MM-DDTHH:MM:SS with Z or +HH:MM, got " + v;
+        return report::valid_pdf_date(v)
+                   ? std::string()
+                   : "--issued-at: expected YYYY-MM-DDTHH:MM:SS with Z or +HH:MM, got " + v;
       });
   sub->callback([o, &ctx] {
     const std::vector<Planned> plan = plan_outputs(*o);
@@ -155,7 +167,8 @@ void register_report(CLI::App& app, Context& ctx) {
     std::unique_ptr<store::Store> db;
     if (!o->file.empty()) {
       std::string text = report::read_file_bytes(o->file);
-      if (text.size() > kMaxSessionBytes) throw data_error(o->file + ": larger than 16 MiB; expected a session file");
+      if (text.size() > kMaxSessionBytes)
+        throw data_error(o->file + ": larger than 16 MiB; expected a session file");
       sessions.push_back(parse_session_json(text, o->file));
     } else {
       db = store::open_sqlite_store(resolve_db_path(ctx), store::Options{});
@@ -171,8 +184,8 @@ void register_report(CLI::App& app, Context& ctx) {
     for (size_t i = 0; i < plan.size(); ++i) {
       const Session& s = sessions[i];
       ReconcileResult result = reconcile(s);
-      report::IssuedReport rep =
-          report::issue_report(s, result, report::session_json(s), report::results_json(result), *signer, opt);
+      report::IssuedReport rep = report::issue_report(s, result, report::session_json(s),
+                                                      report::results_json(result), *signer, opt);
       written.write(plan[i].pdf, rep.pdf);
       written.write(plan[i].sig, rep.pdf_signature);
       if (db) rows.push_back(report_row(plan[i].session, rep, *o, opt));
@@ -183,7 +196,8 @@ void register_report(CLI::App& app, Context& ctx) {
       store::Txn txn(*db, store::Txn::write);
       for (const store::IssuedReport& row : rows) {
         bool known = false;
-        for (const auto& r : db->list_reports(row.session_id)) known = known || r.report_id == row.report_id;
+        for (const auto& r : db->list_reports(row.session_id))
+          known = known || r.report_id == row.report_id;
         if (!known) db->record_report(row);  // an identical re-issue is the same report
       }
       txn.commit();
@@ -191,8 +205,8 @@ void register_report(CLI::App& app, Context& ctx) {
     written.keep();
     if (!ctx.quiet) {
       for (size_t i = 0; i < plan.size(); ++i) {
-        std::cout << "report " << ids[i] << " written to " << plan[i].pdf << " (signature " << plan[i].sig
-                  << ")\n";
+        std::cout << "report " << ids[i] << " written to " << plan[i].pdf << " (signature "
+                  << plan[i].sig << ")\n";
       }
       std::cout << "signed with key " << fingerprint << "\n";
     }

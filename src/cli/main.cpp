@@ -13,11 +13,30 @@
 
 namespace {
 
-// A required option has no default worth showing: CLI11 would print the zero it captured
-// ("--session INT=0 REQUIRED"), which reads as if 0 were accepted.
+// A default worth showing is one the user could have typed. Hidden: a required option's (CLI11
+// would print the zero it captured: "--session INT=0 REQUIRED"), an empty list ("=[]"), and a
+// placeholder its own checks refuse ("--session N=0" where ids start at 1), each of which
+// reads as if it were accepted.
+bool shows_nothing_real(CLI::Option* o) {
+  if (o->get_required()) return true;
+  std::string d = o->get_default_str();
+  if (d.empty() || d == "[]") return true;
+  for (int i = 0;; ++i) {
+    CLI::Validator* v = nullptr;
+    try {
+      v = o->get_validator(i);
+    } catch (const CLI::OptionNotFound&) {
+      return false;
+    }
+    if (v == nullptr) return false;
+    std::string copy = d;
+    if (!(*v)(copy).empty()) return true;
+  }
+}
+
 void hide_required_defaults(CLI::App& app) {
   for (CLI::Option* o : app.get_options()) {
-    if (o->get_required()) o->default_str("");
+    if (shows_nothing_real(o)) o->default_str("");
   }
   for (CLI::App* sub : app.get_subcommands([](CLI::App*) { return true; })) {
     hide_required_defaults(*sub);
@@ -26,13 +45,15 @@ void hide_required_defaults(CLI::App& app) {
 
 int run(int argc, char** argv) {
   sp::cli::Context ctx;
-  CLI::App app{"scaleproof: weigh-ticket reconciliation and signed weigh-reports for "
-               "weight-distributing hitch setups"};
+  CLI::App app{
+      "scaleproof: weigh-ticket reconciliation and signed weigh-reports for "
+      "weight-distributing hitch setups"};
   app.set_version_flag("--version", std::string("scaleproof ") + SCALEPROOF_VERSION);
   app.option_defaults()->always_capture_default();
   app.fallthrough();  // global options are accepted after the subcommand too
-  app.add_option("--db", ctx.db_path, "Ticket store (SQLite); default $SCALEPROOF_DB, else "
-                                      "$XDG_DATA_HOME/scaleproof/store.db");
+  app.add_option("--db", ctx.db_path,
+                 "Ticket store (SQLite); default $SCALEPROOF_DB, else "
+                 "$XDG_DATA_HOME/scaleproof/store.db");
   app.add_flag("-q,--quiet", ctx.quiet, "Print only errors and the data asked for");
   app.add_option("--units", ctx.units, "Convert output: us (lb, in) or metric (kg, mm)")
       ->check(CLI::IsMember({"us", "metric"}));

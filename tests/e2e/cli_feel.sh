@@ -65,4 +65,14 @@ complete_words --units "" | grep -qx metric || fail "completion: --units values"
 for c in $commands; do
   complete_words "$c" "" >/dev/null || fail "completion after '$c'"
 done
+# Help shows no placeholder as if it were a value (issue #12 item 5): no "=[]", no CLI11 range
+# text, no "=0" for an id that starts at 1; the man page gives flags no VALUE.
+for c in report audit reconcile; do
+  expect_exit 0 "$SCALEPROOF" "$c" --help
+  if grep -E '=\[\]|9007199254740992|--session [^ ]*=0' "$WORK/out"; then fail "$c --help shows a placeholder default"; fi
+done
+expect_exit 0 "$SCALEPROOF" man
+for flag in json all version quiet; do
+  if grep -F "\\-\\-$flag\\fR \\fIVALUE" "$WORK/out"; then fail "man page gives the flag --$flag a VALUE"; fi
+done
 echo "cli_feel: ok"
