@@ -3,12 +3,12 @@
 // hitched pass, or estimates), a table of axle loads across bar moments, the moment for the
 // FALR target, where each rating would be exceeded, and a small chart; `--json` for machines.
 // Exit: 0 planned; 2 usage (missing loads, bad flag); 65 invalid data; 66 no such file.
+#include <fmt/format.h>
+
 #include <iostream>
 #include <iterator>
 #include <memory>
 #include <sstream>
-
-#include <fmt/format.h>
 
 #include "cli/commands.h"
 #include "core/error.h"
@@ -62,18 +62,29 @@ std::vector<double> parse_loads(const std::string& text, const char* flag, std::
 
 // The loads with the bars slack from a session: the reconciled values when the engine can
 // solve them (they use every pass), else the first unhitched and hitched readings as keyed.
-PlanLoads loads_from_session(const Session& s, std::vector<std::string>& notes) {
+// A passed fit also gives the back-solved lengths, so the plan's target moment is the one
+// `reconcile` recommends (the same model on the same numbers); `labels` gets the verdict.
+PlanLoads loads_from_session(const Session& s, std::vector<std::string>& notes, TowVehicle& tow,
+                             Trailer& trailer, PlanLabels& labels) {
   PlanLoads l;
   try {
     const ReconcileResult r = reconcile(s);
+    labels.weighed = true;
+    labels.verdict = r.verdict;
+    labels.verdict_reason = r.verdict_reason;
     if (r.tow_steer && r.tow_drive && r.tongue_load && r.trailer_weight) {
       const double t = r.tongue_load->value;
       l.unhitched = AxleLoads{r.tow_steer->value, r.tow_drive->value, 0};
       l.tongue = t;
       l.trailer_weight = r.trailer_weight->value;
-      if (r.fit && !r.fit->passed)
-        notes.push_back("The session's readings fail their fit test (see scaleproof reconcile): "
-                        "fix the flagged reading or length before relying on this plan.");
+      if (r.fit && !r.fit->passed) {
+        notes.push_back(
+            "The session's readings fail their fit test (see scaleproof reconcile): "
+            "fix the flagged reading or length before relying on this plan.");
+      } else {
+        if (r.rear_axle_to_ball) tow.rear_axle_to_ball = r.rear_axle_to_ball->value;
+        if (r.ball_to_axle) trailer.ball_to_axle = r.ball_to_axle->value;
+      }
       return l;
     }
   } catch (const Error&) {
@@ -99,6 +110,7 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
   PlanLoads loads;
   bool from_session = false;  // loads are the engine's reconciled values of a session file
   std::vector<std::string> notes;
+  PlanLabels labels;
   if (!f.session_file.empty()) {
     std::string text;
     if (f.session_file == "-") {
@@ -106,12 +118,11 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
     } else {
       text = report::read_file_bytes(f.session_file);
     }
-    const Session s =
-        parse_session_json(text, f.session_file == "-" ? "<stdin>" : f.session_file);
+    const Session s = parse_session_json(text, f.session_file == "-" ? "<stdin>" : f.session_file);
     tow = s.tow_vehicle;
     trailer = s.trailer;
     units = s.units;
-    loads = loads_from_session(s, notes);
+    loads = loads_from_session(s, notes, tow, trailer, labels);
     from_session = loads.unhitched && loads.tongue && loads.trailer_weight && !loads.hitched;
   } else {
     auto wu = parse_weight_unit(f.weight_unit);
@@ -142,6 +153,7 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
   if (!f.unhitched.empty() || !f.hitched.empty() || f.tongue || f.trailer_weight) {
     loads = PlanLoads{};  // loads given on the command line replace the session's
     from_session = false;
+    labels = PlanLabels{};  // no longer the weighing's plan, nor its verdict
     notes.clear();
     if (!f.unhitched.empty()) {
       auto v = parse_loads(f.unhitched, "--unhitched", 2, "STEER,DRIVE");
@@ -175,7 +187,8 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
   if (from_session) base.source = "the passes of " + f.session_file + ", reconciled";
   PlanResult r = plan(tow, trailer, base, units, po);
   r.notes.insert(r.notes.begin(), notes.begin(), notes.end());
-  const PlanLabels labels{tow.label, trailer.label};
+  labels.tow = tow.label;
+  labels.trailer = trailer.label;
   if (f.json) {
     std::cout << plan_to_json(r, labels).dump(2) << "\n";
   } else if (!ctx.quiet) {
@@ -190,36 +203,48 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
 
 void register_plan(CLI::App& app, Context& ctx) {
   CLI::App* sub = app.add_subcommand(
-      "plan", "Plan a bar setting: axle loads across bar moments, the moment for the FALR "
-              "target, and where each rating would be exceeded");
+      "plan",
+      "Plan a bar setting: axle loads across bar moments, the moment for the FALR "
+      "target, and where each rating would be exceeded");
   auto f = std::make_shared<PlanFlags>();
   sub->add_option("SESSION", f->session_file,
                   "Session file (scaleproof-session/1 JSON, - for stdin) giving the rig and its "
                   "unhitched/hitched passes; flags below override it");
   const char* g_rig = "Rig (without a session file)";
   sub->add_option("--weight-unit", f->weight_unit, "Weight unit of the flags: lb or kg")
-      ->check(CLI::IsMember({"lb", "kg"}))->group(g_rig);
+      ->check(CLI::IsMember({"lb", "kg"}))
+      ->group(g_rig);
   sub->add_option("--length-unit", f->length_unit, "Length unit of the flags: in, ft, mm, cm, m")
-      ->check(CLI::IsMember({"in", "ft", "mm", "cm", "m"}))->group(g_rig);
-  sub->add_option("--wheelbase", f->wheelbase, "Steer axle to drive axle (maker's spec)")->group(g_rig);
+      ->check(CLI::IsMember({"in", "ft", "mm", "cm", "m"}))
+      ->group(g_rig);
+  sub->add_option("--wheelbase", f->wheelbase, "Steer axle to drive axle (maker's spec)")
+      ->group(g_rig);
   sub->add_option("--rear-axle-to-ball", f->rear_axle_to_ball,
-                  "Drive axle to hitch ball, positive behind the axle")->group(g_rig);
+                  "Drive axle to hitch ball, positive behind the axle")
+      ->group(g_rig);
   sub->add_option("--ball-to-axle", f->ball_to_axle,
-                  "Hitch ball to the trailer's effective axle (tandem mid-point)")->group(g_rig);
-  sub->add_flag("--fifth-wheel", f->fifth_wheel, "The trailer is a fifth wheel / gooseneck")->group(g_rig);
+                  "Hitch ball to the trailer's effective axle (tandem mid-point)")
+      ->group(g_rig);
+  sub->add_flag("--fifth-wheel", f->fifth_wheel, "The trailer is a fifth wheel / gooseneck")
+      ->group(g_rig);
   const char* g_rat = "Ratings (weight unit; any may be left out)";
   sub->add_option("--gvwr", f->gvwr, "Tow vehicle GVWR")->group(g_rat);
   sub->add_option("--front-gawr", f->front_gawr, "Front (steer) axle GAWR")->group(g_rat);
   sub->add_option("--rear-gawr", f->rear_gawr, "Rear (drive) axle GAWR")->group(g_rat);
   sub->add_option("--gcwr", f->gcwr, "GCWR of the whole rig")->group(g_rat);
-  sub->add_option("--hitch-tongue-rating", f->tongue_rating, "Hitch tongue-load rating")->group(g_rat);
-  sub->add_option("--hitch-trailer-rating", f->trailer_rating, "Hitch trailer-weight rating")->group(g_rat);
+  sub->add_option("--hitch-tongue-rating", f->tongue_rating, "Hitch tongue-load rating")
+      ->group(g_rat);
+  sub->add_option("--hitch-trailer-rating", f->trailer_rating, "Hitch trailer-weight rating")
+      ->group(g_rat);
   sub->add_option("--trailer-gvwr", f->trailer_gvwr, "Trailer GVWR")->group(g_rat);
-  sub->add_option("--trailer-axle-gawr", f->trailer_axle_gawr, "GAWR of all trailer axles together")->group(g_rat);
+  sub->add_option("--trailer-axle-gawr", f->trailer_axle_gawr, "GAWR of all trailer axles together")
+      ->group(g_rat);
   const char* g_loads = "Loads with the bars slack (replace the session's)";
   sub->add_option("--unhitched", f->unhitched, "Tow vehicle alone: STEER,DRIVE")->group(g_loads);
-  sub->add_option("--hitched", f->hitched, "Hitched, bars slack: STEER,DRIVE,TRAILER")->group(g_loads);
-  sub->add_option("--tongue", f->tongue, "Estimated tongue load (e.g. from a tongue scale)")->group(g_loads);
+  sub->add_option("--hitched", f->hitched, "Hitched, bars slack: STEER,DRIVE,TRAILER")
+      ->group(g_loads);
+  sub->add_option("--tongue", f->tongue, "Estimated tongue load (e.g. from a tongue scale)")
+      ->group(g_loads);
   sub->add_option("--trailer-weight", f->trailer_weight, "Whole trailer weight")->group(g_loads);
   sub->add_option("--falr", f->falr, "FALR target in % (default: the rig's, else 50)")
       ->check(CLI::Range(0.0, 100.0));

@@ -5,25 +5,35 @@
 // each rating is exceeded, a chart, the notes and the cautions. `colour` adds ANSI colour to
 // the words "over"/"within" only (callers pass false unless stdout is a terminal and NO_COLOR
 // is unset).
-// plan_to_json: the same content, keys: units, moment_unit, geometry, baseline,
+// plan_to_json: the same content, keys: verdict, verdict_reason, units, moment_unit, geometry,
+// baseline,
 // trailer_weight, tongue_percent, falr_target, falr_from_rig, full_restoration, target,
 // rows[], ratings[], notes[]. Values in the plan's units; absent values are null.
 // Both are deterministic. Pure: strings out.
 #pragma once
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
 #include <vector>
 
-#include <nlohmann/json.hpp>
-
 #include "engine/plan.h"
+#include "engine/result.h"
 
 namespace sp {
 
 struct PlanLabels {
   std::string tow;      // tow vehicle label (may be empty)
   std::string trailer;  // trailer label (may be empty)
+  // From a weighed session: the heading says so and the weighing's verdict leads the plan.
+  // Otherwise the plan leads with not-proven: arithmetic on numbers given proves nothing.
+  bool weighed = false;
+  Verdict verdict = Verdict::not_proven;
+  std::string verdict_reason;
 };
+
+// Words for a rating key of the compliance table ("rear_gawr" -> "rear GAWR"); the key itself
+// when unknown.
+std::string rating_words(const std::string& key);
 
 std::string plan_text(const PlanResult& plan, const PlanLabels& labels, bool colour = false);
 nlohmann::ordered_json plan_to_json(const PlanResult& plan, const PlanLabels& labels);

@@ -30,10 +30,11 @@ expect_exit 0 "$SCALEPROOF" plan "${EX[@]}" --max-moment 7000 --steps 1 --front-
 python3 - "$WORK/out" <<'PY'
 import json, sys
 j = json.load(open(sys.argv[1]))
-assert list(j) == ["units", "moment_unit", "tow_vehicle", "trailer", "trailer_type", "geometry",
+assert list(j) == ["verdict", "verdict_reason", "units", "moment_unit", "tow_vehicle", "trailer", "trailer_type", "geometry",
                    "baseline", "trailer_weight", "tongue_percent", "falr_target", "falr_from_rig",
                    "full_restoration", "target", "rows", "ratings", "notes"], list(j)
 assert j["moment_unit"] == "lbf·ft"
+assert j["verdict"] == "not-proven", j["verdict"]  # a plan before weighing proves nothing
 assert len(j["rows"]) == 2
 last = j["rows"][1]
 assert last["bar_moment"] == 7000
@@ -72,4 +73,20 @@ expect_in "$WORK/err" "no-such-session.json"
 echo '{"format": "scaleproof-session/1"}' >"$WORK/bad.json"
 expect_exit 65 "$SCALEPROOF" plan "$WORK/bad.json"
 expect_in "$WORK/err" "bad.json"
+
+# From a weighed session (issue #12): headed as such, led by the weighing's verdict, ratings
+# in words, and the same target moment as reconcile (same model, same back-solved lengths).
+expect_exit 0 "$SCALEPROOF" plan "$SOURCE_DIR/data-demo/sessions/01-pickup-travel-trailer.json"
+head -1 "$WORK/out" | grep -qx "Verdict of the weighing: compliant" || fail "plan: verdict line"
+expect_in "$WORK/out" "Plan from the weighing"
+expect_in "$WORK/out" "needs 1540 lbf·ft"
+cp "$WORK/out" "$WORK/plan.txt"
+expect_exit 0 "$SCALEPROOF" reconcile "$SOURCE_DIR/data-demo/sessions/01-pickup-travel-trailer.json"
+expect_in "$WORK/out" "Bar moment for the target: 1540 ± 41 lbf·ft"
+expect_exit 0 "$SCALEPROOF" plan "$SOURCE_DIR/data-demo/sessions/02-fifth-wheel-heavy-truck.json"
+expect_in "$WORK/out" "Verdict of the weighing: over"
+expect_in "$WORK/out" "rear GAWR"
+expect_in "$WORK/out" "drive axle to kingpin"
+if grep -q "rear_gawr" "$WORK/out"; then fail "plan shows the internal key rear_gawr"; fi
+
 echo "plan_owner: ok"
