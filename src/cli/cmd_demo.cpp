@@ -83,8 +83,9 @@ std::string flags_line(const ReconcileResult& r) {
   std::string s;
   for (const Flag& f : r.flags) {
     if (f.severity == Severity::note) continue;
-    std::string where = f.ticket ? *f.ticket + (f.platform ? " " + *f.platform : "")
-                                 : f.field.value_or("");
+    std::string where = f.rating ? *f.rating
+                        : f.ticket ? *f.ticket + (f.platform ? " " + *f.platform : "")
+                                   : f.field.value_or("");
     s += (s.empty() ? "" : ", ") + f.code + (where.empty() ? "" : " (" + where + ")");
   }
   return s.empty() ? "no flags" : s;
@@ -280,8 +281,8 @@ class Demo {
                                             r.fit->passed ? "passed" : "FAILED",
                                             r.fit->chi_square, r.fit->dof)
                               : "no fit test";
-      say(fmt::format("   session {} {:<5} {:<40} {}; {}", d.id, d.rig, d.source, fit,
-                      flags_line(r)));
+      say(fmt::format("   session {} {:<5} {:<40} {:<10} {}; {}", d.id, d.rig, d.source,
+                      to_string(r.verdict), fit, flags_line(r)));
       for (const json& e : manifest_.at("expect"))
         if ("data-demo/" + e.at("session").get<std::string>() == d.source &&
             !expectation_met(e, r))
