@@ -102,8 +102,7 @@ std::string audit_pdf(const AuditReport& rep) {
   w.para(fmt::format("Limits: first to last pass within {} min; a scale inspection within {} "
                      "months before the weighing; weighing at most {} days before the claim "
                      "date; ticket times up to {} min ahead of the audit clock.",
-                     o.max_span_minutes, o.inspection_months, o.stale_days,
-                     o.future_slack_minutes),
+                     o.max_span_minutes, o.inspection_months, o.stale_days, o.future_slack_minutes),
          kMargin);
   if (rep.trusted_keys.empty()) {
     w.para("Trusted station keys: none given; report origins were not checked.", kMargin);
@@ -128,6 +127,8 @@ std::string audit_pdf(const AuditReport& rep) {
     w.para(ia.source + " (" + std::string(to_string(ia.kind)) + ")", kMargin, 11,
            report::Font::bold);
     w.para(ia.label, kMargin, kBody, report::Font::regular, 0.35f);
+    w.para("Verdict: " + std::string(to_string(ia.verdict)) + ". " + ia.verdict_reason, kMargin,
+           kBody, report::Font::bold, 0.35f);
     for (const auto& f : ia.findings) {
       w.gap(2);
       w.need(3 * kLead);
@@ -155,7 +156,8 @@ std::string audit_pdf(const AuditReport& rep) {
         w.para(fmt::format("... and {} more (see the --json output)", clean - 200), kMargin + 12);
         break;
       }
-      w.para(ia.source + ": " + ia.label, kMargin + 12);
+      w.para(ia.source + ": " + ia.label + "; verdict " + std::string(to_string(ia.verdict)),
+             kMargin + 12);
     }
   }
   w.gap(8);
