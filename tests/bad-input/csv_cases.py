@@ -60,7 +60,7 @@ def write_all(here):
           "the same column twice")
     variant("csv_steer_text.csv", ":3: steer", "reading is text", 1, "steer", "abc")
     variant("csv_steer_negative.csv", ":2: steer", "negative reading", 0, "steer", "-20")
-    variant("csv_drive_absurd.csv", ":4: ticket C-0001003, pass tensioned: drive", "9 000 000 lb on one platform", 2, "drive",
+    variant("csv_drive_absurd.csv", ":4: drive", "9 000 000 lb on one platform", 2, "drive",
             "9000000")
     variant("csv_huge_number.csv", ":5: trailer", "1e400 overflows a double", 3, "trailer",
             "1e400")
@@ -90,7 +90,7 @@ def write_all(here):
             "R-404")
     variant("csv_unknown_scale.csv", ":2: scale", "a scale the store does not have", 0,
             "scale", "ST-9")
-    variant("csv_unhitched_trailer.csv", ":2: ticket C-0001001, pass unhitched: trailer", "trailer reading on an unhitched pass",
+    variant("csv_unhitched_trailer.csv", ":2: trailer", "trailer reading on an unhitched pass",
             0, "trailer", "200")
     variant("csv_gross_mismatch.csv", ":3: ticket C-0001002, pass hitched: gross", "printed gross is not the sum", 1, "gross",
             "99999")
