@@ -210,8 +210,7 @@ bool PassCsvReader::next(CsvPassRow& row) {
   p.ticket = required(kTicket);
   p.weighed_at = required(kWeighedAt);
   if (auto why = format::check_iso_date_time(p.weighed_at); !why.empty()) {
-    fail("weighed_at", fmt::format("expected an ISO 8601 date-time with offset such as "
-                                   "2026-11-03T09:14:00-06:00, got {} ({})", shown(p.weighed_at), why));
+    fail("weighed_at", why + ", got " + shown(p.weighed_at));  // validate::pass's wording
   }
   auto steer = weight(kSteer);
   if (!steer) fail("steer", "expected a number, got an empty field");
@@ -226,8 +225,7 @@ bool PassCsvReader::next(CsvPassRow& row) {
   p.entered_at = text(kEnteredAt);
   if (p.entered_at) {
     if (auto why = format::check_iso_date_time(*p.entered_at); !why.empty()) {
-      fail("entered_at", fmt::format("expected an ISO 8601 date-time with offset, got {} ({})",
-                                     shown(*p.entered_at), why));
+      fail("entered_at", why + ", got " + shown(*p.entered_at));
     }
   }
   p.id.reset();

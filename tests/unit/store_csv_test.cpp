@@ -51,7 +51,7 @@ TEST_CASE("CSV import errors name file, line and column and write nothing") {
        "in.csv:2: steer: expected a number, got \"1e400\""},
       {"time without offset",
        h + "K-1,ST-3,heron-wren,unhitched,,A-1,2026-11-03T09:14:00,4600,3900,,\n",
-       "in.csv:2: weighed_at: expected an ISO 8601 date-time with offset"},
+       "in.csv:2: weighed_at: missing the UTC offset"},
       {"division",
        g + "K-1,ST-3,heron-wren,tensioned,6,B-1042,2026-11-03T09:40:00-06:00,4460,4705,6280,\n",
        "in.csv:5: ticket B-1042, pass tensioned: drive: reading 4705 lb is not a multiple"},
