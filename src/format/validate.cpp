@@ -243,8 +243,10 @@ std::size_t max_chars(Text kind) {
 
 std::string text_fault(std::string_view s, Text kind) {
   const bool multiline = kind == Text::notes;
-  std::size_t chars = 0;
+  // Fast path: printable ASCII (nearly every ticket, key and name) is one compare a byte.
   std::size_t i = 0;
+  while (i < s.size() && static_cast<unsigned char>(s[i] - 0x20) < 0x5F) ++i;
+  std::size_t chars = i;
   while (i < s.size()) {
     const auto b = static_cast<unsigned char>(s[i]);
     ++chars;
