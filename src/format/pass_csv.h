@@ -20,6 +20,9 @@
 //   entered_at   when it was keyed in (ISO 8601); empty: the import time
 //   void_reason  non-empty: the pass is stored and voided at once with this reason
 // Unknown or repeated column names are refused. Empty optional fields mean "not given".
+// Text cells are judged by validate::text_fault (format/validate.h); a text cell starting with
+// a formula character is written "'=..." and read back as stored (docs/csv.md). Weights are
+// plain decimals here; their ranges need the scale's unit, so the importer runs validate::pass.
 // Errors are sp::Error(data_error) "<source>:<line>: <column>: <what was expected>, got ...".
 #pragma once
 #include <cstdint>

@@ -20,6 +20,7 @@
 // Numbers may be integers or decimals. `setting` may be a string or a number; it is kept as
 // text. The writer prints integral values as integers, others in the shortest form that reads
 // back to the same double, so parse(write(s)) == s.
+// Ranges, text rules and the coupling rules are format/validate.h's (validate::session).
 #include "format/session_json.h"
 
 #include <cmath>
