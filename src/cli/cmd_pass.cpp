@@ -4,11 +4,12 @@
 // otherwise it is a usage error naming the flag.
 // Exit: 0 stored (prints the pass id); 65 refused (ticket and platform named); 66 no such
 // session / pass; 2 usage; 75 the store stayed busy.
-#include <iostream>
-
 #include <fmt/format.h>
 
+#include <iostream>
+
 #include "cli/commands.h"
+#include "cli/flag_values.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
 #include "format/iso8601.h"
@@ -22,6 +23,8 @@ struct AddOpts {
   long long session = 0;
   std::string kind, setting, ticket, weighed_at, ticket_scale, by;
   std::optional<double> steer, drive, trailer, gross;
+  // The numeric flags as typed (cli/flag_values.h reads them, so "4460 lb" is bad data).
+  std::optional<std::string> steer_text, drive_text, trailer_text, gross_text;
 };
 
 // Asks on stderr until `accept` takes the answer; EOF ends with a usage error.
@@ -127,13 +130,21 @@ void register_pass(CLI::App& app, Context& ctx) {
   add->add_option("--setting", a->setting, "Bar tension setting (tensioned passes)");
   add->add_option("--ticket", a->ticket, "Scale ticket number");
   add->add_option("--weighed-at", a->weighed_at, "Time on the ticket, ISO 8601 with offset");
-  add->add_option("--steer", a->steer, "Steer-platform reading, in the scale's unit");
-  add->add_option("--drive", a->drive, "Drive-platform reading");
-  add->add_option("--trailer", a->trailer, "Trailer-platform reading (hitched, tensioned)");
-  add->add_option("--gross", a->gross, "Printed gross, when the ticket shows one");
+  add->add_option("--steer", a->steer_text, "Steer-platform reading, in the scale's unit")
+      ->type_name("NUMBER");
+  add->add_option("--drive", a->drive_text, "Drive-platform reading")->type_name("NUMBER");
+  add->add_option("--trailer", a->trailer_text, "Trailer-platform reading (hitched, tensioned)")
+      ->type_name("NUMBER");
+  add->add_option("--gross", a->gross_text, "Printed gross, when the ticket shows one")
+      ->type_name("NUMBER");
   add->add_option("--ticket-scale", a->ticket_scale, "Scale id on the ticket, if not the session's");
   add->add_option("--by", a->by, "Who keys it in (default $SCALEPROOF_OPERATOR, $USER)");
   add->callback([&ctx, a] {
+    const auto& names = pass_flag_names();
+    a->steer = number_flag(a->steer_text, "steer", names);
+    a->drive = number_flag(a->drive_text, "drive", names);
+    a->trailer = number_flag(a->trailer_text, "trailer", names);
+    a->gross = number_flag(a->gross_text, "gross", names);
     auto store = open_store(ctx);
     ScaleInfo scale;
     WeightUnit unit = WeightUnit::lb;
@@ -151,16 +162,15 @@ void register_pass(CLI::App& app, Context& ctx) {
     if (!a->setting.empty()) p.setting = a->setting;
     p.ticket = a->ticket;
     p.weighed_at = a->weighed_at;
-    if (auto why = format::check_iso_date_time(p.weighed_at); !why.empty()) {
-      throw data_error(fmt::format("ticket {}: --weighed-at: expected an ISO 8601 date-time with "
-                                   "offset, got '{}' ({})", p.ticket, p.weighed_at, why));
-    }
     p.steer = *a->steer;
     p.drive = *a->drive;
     p.trailer = a->trailer;
     p.gross = a->gross;
     if (!a->ticket_scale.empty()) p.scale_id = a->ticket_scale;
     p.entered_by = who(a->by);
+    // The flags as the user typed them (the store checks again, naming the ticket).
+    validate::pass(p, unit, names);
+    validate::pass_on_scale(p, scale, unit, names);
     store::Txn txn(*store, store::Txn::write);
     long long id = store->add_pass(a->session, p);
     txn.commit();

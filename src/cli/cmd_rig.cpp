@@ -6,17 +6,21 @@
 //                 hitch_tongue_rating, hitch_trailer_rating, falr_target
 //   [trailer]    label, type ("conventional" | "fifth-wheel"), ball_to_axle, gvwr, axle_gawr
 // Exit: 0 done; 65 a value is refused (named); 66 the file does not exist; 2 usage.
-#include <fstream>
-#include <iostream>
-#include <sstream>
-
 #include <fmt/format.h>
-#include <nlohmann/json.hpp>
 #include <toml++/toml.h>
 
+#include <algorithm>
+#include <fstream>
+#include <iostream>
+#include <nlohmann/json.hpp>
+#include <sstream>
+
 #include "cli/commands.h"
+#include "cli/flag_values.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
+#include "format/json_strict.h"
+#include "format/validate.h"
 
 namespace sp::cli {
 
@@ -24,31 +28,54 @@ namespace {
 
 using json = nlohmann::json;
 
-void only_keys(const json& obj, const std::string& where, std::initializer_list<const char*> keys) {
-  if (!obj.is_object()) throw data_error(where + ": expected a table of keys");
-  for (auto it = obj.begin(); it != obj.end(); ++it) {
-    bool known = false;
-    for (const char* k : keys) known = known || it.key() == k;
-    if (!known) throw data_error(where + "." + it.key() + ": unknown key");
-  }
-}
+// Types and shapes of a rig file; ranges and text are validate::rig's. `names` turns a model
+// field ("tow_vehicle.gvwr") into the file's name for it ("rig.toml: tow_vehicle.gvwr").
+struct RigFileReader {
+  const validate::FieldNames& names;
 
-double number(const json& obj, const std::string& where, const char* key) {
-  if (!obj.contains(key)) throw data_error(where + "." + key + ": expected a number, missing");
-  const json& v = obj.at(key);
-  if (!v.is_number()) throw data_error(where + "." + key + ": expected a number, got " + v.dump());
-  return v.get<double>();
-}
-std::optional<double> opt_number(const json& obj, const std::string& where, const char* key) {
-  if (!obj.contains(key)) return std::nullopt;
-  return number(obj, where, key);
-}
-std::string text(const json& obj, const std::string& where, const char* key) {
-  if (!obj.contains(key) || !obj.at(key).is_string()) {
-    throw data_error(where + "." + key + ": expected text");
+  void only_keys(const json& obj, const std::string& where,
+                 const std::vector<std::string>& keys) const {
+    if (!obj.is_object()) {
+      validate::fail(names, where, "expected a table of keys, got " + format::describe_json(obj));
+    }
+    for (auto it = obj.begin(); it != obj.end(); ++it) {
+      if (std::find(keys.begin(), keys.end(), it.key()) != keys.end()) continue;
+      std::string msg = "unknown key " + validate::quoted(it.key());
+      if (auto near = format::closest_name(it.key(), keys); !near.empty()) {
+        msg += "; did you mean '" + near + "'?";
+      }
+      validate::fail(names, (where.empty() ? "" : where + ".") + it.key(), msg);
+    }
   }
-  return obj.at(key).get<std::string>();
-}
+  const json& required(const json& obj, const std::string& where, const char* key) const {
+    if (!obj.contains(key)) {
+      validate::fail(names, where.empty() ? std::string("$") : where,
+                     std::string("missing required field '") + key + "'");
+    }
+    return obj.at(key);
+  }
+  double number(const json& obj, const std::string& where, const char* key) const {
+    const json& v = required(obj, where, key);
+    if (!v.is_number()) {
+      validate::fail(names, where + "." + key,
+                     "expected a number, got " + format::describe_json(v));
+    }
+    return v.get<double>();
+  }
+  std::optional<double> opt_number(const json& obj, const std::string& where,
+                                   const char* key) const {
+    if (!obj.contains(key)) return std::nullopt;
+    return number(obj, where, key);
+  }
+  std::string text(const json& obj, const std::string& where, const char* key) const {
+    const json& v = required(obj, where, key);
+    if (!v.is_string()) {
+      validate::fail(names, (where.empty() ? "" : where + ".") + key,
+                     "expected a string, got " + format::describe_json(v));
+    }
+    return v.get<std::string>();
+  }
+};
 
 store::RigRecord rig_from_file(const std::string& path) {
   std::ifstream f(path, std::ios::binary);
@@ -74,51 +101,69 @@ store::RigRecord rig_from_file(const std::string& path) {
       throw data_error(fmt::format("{}:{}: {}", path, e.source().begin.line, e.description()));
     }
   }
+  // TOML keys are named as written ("rig.toml: tow_vehicle.gvwr"), JSON ones as paths.
+  const validate::PrefixNames names(path + (is_json ? ": $." : ": "));
+  const RigFileReader in{names};
   store::RigRecord r;
-  only_keys(j, path + ": $", {"name", "units", "tow_vehicle", "trailer"});
-  r.name = text(j, path + ": $", "name");
+  in.only_keys(j, "", {"name", "units", "tow_vehicle", "trailer"});
+  r.name = in.text(j, "", "name");
   if (j.contains("units")) {
     const json& u = j.at("units");
-    only_keys(u, path + ": $.units", {"weight", "length"});
+    in.only_keys(u, "units", {"weight", "length"});
     if (u.contains("weight")) {
-      auto w = parse_weight_unit(text(u, path + ": $.units", "weight"));
-      if (!w) throw data_error(path + ": $.units.weight: expected lb or kg");
-      r.units.weight = *w;
+      const std::string w = in.text(u, "units", "weight");
+      auto pw = parse_weight_unit(w);
+      if (!pw) {
+        validate::fail(names, "units.weight",
+                       "unknown weight unit " + validate::quoted(w) + "; expected one of: lb, kg");
+      }
+      r.units.weight = *pw;
     }
     if (u.contains("length")) {
-      auto l = parse_length_unit(text(u, path + ": $.units", "length"));
-      if (!l) throw data_error(path + ": $.units.length: expected in, ft, mm, cm or m");
-      r.units.length = *l;
+      const std::string l = in.text(u, "units", "length");
+      auto pl = parse_length_unit(l);
+      if (!pl) {
+        validate::fail(
+            names, "units.length",
+            "unknown length unit " + validate::quoted(l) + "; expected one of: in, ft, mm, cm, m");
+      }
+      r.units.length = *pl;
     }
   }
-  std::string vw = path + ": $.tow_vehicle";
-  if (!j.contains("tow_vehicle")) throw data_error(vw + ": missing");
-  const json& v = j.at("tow_vehicle");
-  only_keys(v, vw, {"label", "wheelbase", "rear_axle_to_ball", "gvwr", "front_gawr", "rear_gawr",
-                    "gcwr", "hitch_tongue_rating", "hitch_trailer_rating", "falr_target"});
-  r.vehicle.label = text(v, vw, "label");
-  r.vehicle.wheelbase = number(v, vw, "wheelbase");
-  r.vehicle.rear_axle_to_ball = number(v, vw, "rear_axle_to_ball");
-  r.vehicle.gvwr = opt_number(v, vw, "gvwr");
-  r.vehicle.front_gawr = opt_number(v, vw, "front_gawr");
-  r.vehicle.rear_gawr = opt_number(v, vw, "rear_gawr");
-  r.vehicle.gcwr = opt_number(v, vw, "gcwr");
-  r.vehicle.hitch_tongue_rating = opt_number(v, vw, "hitch_tongue_rating");
-  r.vehicle.hitch_trailer_rating = opt_number(v, vw, "hitch_trailer_rating");
-  r.vehicle.falr_target = opt_number(v, vw, "falr_target");
-  std::string tw = path + ": $.trailer";
-  if (!j.contains("trailer")) throw data_error(tw + ": missing");
-  const json& t = j.at("trailer");
-  only_keys(t, tw, {"label", "type", "ball_to_axle", "gvwr", "axle_gawr"});
-  r.trailer.label = text(t, tw, "label");
+  const json& v = in.required(j, "", "tow_vehicle");
+  const std::string vw = "tow_vehicle";
+  in.only_keys(v, vw,
+               {"label", "wheelbase", "rear_axle_to_ball", "gvwr", "front_gawr", "rear_gawr",
+                "gcwr", "hitch_tongue_rating", "hitch_trailer_rating", "falr_target"});
+  r.vehicle.label = in.text(v, vw, "label");
+  r.vehicle.wheelbase = in.number(v, vw, "wheelbase");
+  r.vehicle.rear_axle_to_ball = in.number(v, vw, "rear_axle_to_ball");
+  r.vehicle.gvwr = in.opt_number(v, vw, "gvwr");
+  r.vehicle.front_gawr = in.opt_number(v, vw, "front_gawr");
+  r.vehicle.rear_gawr = in.opt_number(v, vw, "rear_gawr");
+  r.vehicle.gcwr = in.opt_number(v, vw, "gcwr");
+  r.vehicle.hitch_tongue_rating = in.opt_number(v, vw, "hitch_tongue_rating");
+  r.vehicle.hitch_trailer_rating = in.opt_number(v, vw, "hitch_trailer_rating");
+  r.vehicle.falr_target = in.opt_number(v, vw, "falr_target");
+  const json& t = in.required(j, "", "trailer");
+  const std::string tw = "trailer";
+  in.only_keys(t, tw, {"label", "type", "ball_to_axle", "gvwr", "axle_gawr"});
+  r.trailer.label = in.text(t, tw, "label");
   if (t.contains("type")) {
-    auto ty = parse_trailer_type(text(t, tw, "type"));
-    if (!ty) throw data_error(tw + ".type: expected conventional or fifth-wheel");
+    const std::string type = in.text(t, tw, "type");
+    auto ty = parse_trailer_type(type);
+    if (!ty) {
+      validate::fail(names, "trailer.type",
+                     "unknown trailer type " + validate::quoted(type) +
+                         "; expected one of: conventional, fifth-wheel");
+    }
     r.trailer.type = *ty;
   }
-  r.trailer.ball_to_axle = number(t, tw, "ball_to_axle");
-  r.trailer.gvwr = opt_number(t, tw, "gvwr");
-  r.trailer.axle_gawr = opt_number(t, tw, "axle_gawr");
+  r.trailer.ball_to_axle = in.number(t, tw, "ball_to_axle");
+  r.trailer.gvwr = in.opt_number(t, tw, "gvwr");
+  r.trailer.axle_gawr = in.opt_number(t, tw, "axle_gawr");
+  validate::text(r.name, validate::Text::label, "name", names, false);
+  validate::rig(r.units, r.vehicle, r.trailer, names);
   return r;
 }
 
@@ -131,8 +176,9 @@ void register_rig(CLI::App& app, Context& ctx) {
 
   struct AddOpts {
     std::string file, name, vehicle, trailer, type = "conventional", wu = "lb", lu = "in", by;
-    double wheelbase = 0, o = 0, l = 0;
-    std::optional<double> gvwr, fgawr, rgawr, gcwr, tongue, hitch_trailer, falr, tgvwr, tgawr;
+    // Numbers as typed (cli/flag_values.h reads them, so "7250 lb" is bad data, exit 65).
+    std::optional<std::string> wheelbase, o, l, gvwr, fgawr, rgawr, gcwr, tongue, hitch_trailer,
+        falr, tgvwr, tgawr;
   };
   auto a = std::make_shared<AddOpts>();
   auto* add = rig->add_subcommand("add", "Add a rig from flags or from --file rig.toml|rig.json");
@@ -140,25 +186,32 @@ void register_rig(CLI::App& app, Context& ctx) {
   add->add_option("--file", a->file, "Rig file (TOML, or JSON when it ends in .json)");
   add->add_option("--name", a->name, "Rig name (unique), used by session open and CSV imports");
   add->add_option("--vehicle", a->vehicle, "Tow vehicle label");
-  add->add_option("--wheelbase", a->wheelbase, "Steer axle to drive axle, in --length-unit");
+  add->add_option("--wheelbase", a->wheelbase, "Steer axle to drive axle, in --length-unit")
+      ->type_name("NUMBER");
   add->add_option("--rear-axle-to-ball", a->o,
-                  "Drive axle to hitch ball, positive behind the axle, in --length-unit");
+                  "Drive axle to hitch ball, positive behind the axle, in --length-unit")
+      ->type_name("NUMBER");
   add->add_option("--trailer", a->trailer, "Trailer label");
   add->add_option("--trailer-type", a->type, "conventional or fifth-wheel")
       ->check(CLI::IsMember({"conventional", "fifth-wheel"}));
-  add->add_option("--ball-to-axle", a->l, "Hitch ball to trailer axle (tandem mid-point)");
+  add->add_option("--ball-to-axle", a->l, "Hitch ball to trailer axle (tandem mid-point)")
+      ->type_name("NUMBER");
   add->add_option("--weight-unit", a->wu, "Unit of the ratings")->check(CLI::IsMember({"lb", "kg"}));
   add->add_option("--length-unit", a->lu, "Unit of the lengths")
       ->check(CLI::IsMember({"in", "ft", "mm", "cm", "m"}));
-  add->add_option("--gvwr", a->gvwr, "Tow vehicle GVWR");
-  add->add_option("--front-gawr", a->fgawr, "Front (steer) axle GAWR");
-  add->add_option("--rear-gawr", a->rgawr, "Rear (drive) axle GAWR");
-  add->add_option("--gcwr", a->gcwr, "GCWR");
-  add->add_option("--hitch-tongue-rating", a->tongue, "Hitch tongue-weight rating (with WD)");
-  add->add_option("--hitch-trailer-rating", a->hitch_trailer, "Hitch trailer-weight rating");
-  add->add_option("--falr-target", a->falr, "Vehicle maker's FALR target, percent");
-  add->add_option("--trailer-gvwr", a->tgvwr, "Trailer GVWR");
-  add->add_option("--trailer-axle-gawr", a->tgawr, "GAWR of all trailer axles together");
+  add->add_option("--gvwr", a->gvwr, "Tow vehicle GVWR")->type_name("NUMBER");
+  add->add_option("--front-gawr", a->fgawr, "Front (steer) axle GAWR")->type_name("NUMBER");
+  add->add_option("--rear-gawr", a->rgawr, "Rear (drive) axle GAWR")->type_name("NUMBER");
+  add->add_option("--gcwr", a->gcwr, "GCWR")->type_name("NUMBER");
+  add->add_option("--hitch-tongue-rating", a->tongue, "Hitch tongue-weight rating (with WD)")
+      ->type_name("NUMBER");
+  add->add_option("--hitch-trailer-rating", a->hitch_trailer, "Hitch trailer-weight rating")
+      ->type_name("NUMBER");
+  add->add_option("--falr-target", a->falr, "Vehicle maker's FALR target, percent")
+      ->type_name("NUMBER");
+  add->add_option("--trailer-gvwr", a->tgvwr, "Trailer GVWR")->type_name("NUMBER");
+  add->add_option("--trailer-axle-gawr", a->tgawr, "GAWR of all trailer axles together")
+      ->type_name("NUMBER");
   add->add_option("--by", a->by, "Who records it (default $SCALEPROOF_OPERATOR, $USER)");
   add->callback([&ctx, a] {
     store::RigRecord r;
@@ -166,30 +219,35 @@ void register_rig(CLI::App& app, Context& ctx) {
       r = rig_from_file(a->file);
       if (!a->name.empty()) r.name = a->name;
     } else {
-      for (auto [flag, missing] : {std::pair{"--name", a->name.empty()},
-                                   std::pair{"--vehicle", a->vehicle.empty()},
-                                   std::pair{"--wheelbase", a->wheelbase == 0},
-                                   std::pair{"--trailer", a->trailer.empty()},
-                                   std::pair{"--ball-to-axle", a->l == 0}}) {
+      for (auto [flag, missing] :
+           {std::pair{"--name", a->name.empty()}, std::pair{"--vehicle", a->vehicle.empty()},
+            std::pair{"--wheelbase", !a->wheelbase}, std::pair{"--trailer", a->trailer.empty()},
+            std::pair{"--ball-to-axle", !a->l}}) {
         if (missing) throw usage_error(std::string("rig add: missing ") + flag + " (or give --file)");
       }
       r.name = a->name;
       r.units = Units{*parse_weight_unit(a->wu), *parse_length_unit(a->lu)};
       r.vehicle.label = a->vehicle;
-      r.vehicle.wheelbase = a->wheelbase;
-      r.vehicle.rear_axle_to_ball = a->o;
-      r.vehicle.gvwr = a->gvwr;
-      r.vehicle.front_gawr = a->fgawr;
-      r.vehicle.rear_gawr = a->rgawr;
-      r.vehicle.gcwr = a->gcwr;
-      r.vehicle.hitch_tongue_rating = a->tongue;
-      r.vehicle.hitch_trailer_rating = a->hitch_trailer;
-      r.vehicle.falr_target = a->falr;
+      const auto& names = rig_flag_names();
+      auto n = [&](const std::optional<std::string>& text, const char* field) {
+        return number_flag(text, field, names);
+      };
+      r.vehicle.wheelbase = *n(a->wheelbase, "tow_vehicle.wheelbase");
+      r.vehicle.rear_axle_to_ball = n(a->o, "tow_vehicle.rear_axle_to_ball").value_or(0);
+      r.vehicle.gvwr = n(a->gvwr, "tow_vehicle.gvwr");
+      r.vehicle.front_gawr = n(a->fgawr, "tow_vehicle.front_gawr");
+      r.vehicle.rear_gawr = n(a->rgawr, "tow_vehicle.rear_gawr");
+      r.vehicle.gcwr = n(a->gcwr, "tow_vehicle.gcwr");
+      r.vehicle.hitch_tongue_rating = n(a->tongue, "tow_vehicle.hitch_tongue_rating");
+      r.vehicle.hitch_trailer_rating = n(a->hitch_trailer, "tow_vehicle.hitch_trailer_rating");
+      r.vehicle.falr_target = n(a->falr, "tow_vehicle.falr_target");
       r.trailer.label = a->trailer;
       r.trailer.type = *parse_trailer_type(a->type);
-      r.trailer.ball_to_axle = a->l;
-      r.trailer.gvwr = a->tgvwr;
-      r.trailer.axle_gawr = a->tgawr;
+      r.trailer.ball_to_axle = *n(a->l, "trailer.ball_to_axle");
+      r.trailer.gvwr = n(a->tgvwr, "trailer.gvwr");
+      r.trailer.axle_gawr = n(a->tgawr, "trailer.axle_gawr");
+      validate::text(r.name, validate::Text::label, "name", names, false);
+      validate::rig(r.units, r.vehicle, r.trailer, names);
     }
     r.entered_by = who(a->by);
     auto store = open_store(ctx);

@@ -1,10 +1,11 @@
 // `scaleproof scale add|list|show|inspect`: the station's scales and their inspection history.
 // Exit: 0 done; 65 a value is refused (named); 66 no such scale; 2 usage.
-#include <iostream>
-
 #include <fmt/format.h>
 
+#include <iostream>
+
 #include "cli/commands.h"
+#include "cli/flag_values.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
 
@@ -32,34 +33,46 @@ void register_scale(CLI::App& app, Context& ctx) {
   struct AddOpts {
     ScaleInfo info;
     std::string unit = "lb", by, inspected, seal;
-    double capacity = 0, reading_u = 0;
+    // Numbers as typed (cli/flag_values.h reads them, so "20 lb" is bad data, exit 65).
+    std::optional<std::string> division, capacity, reading_u;
   };
   auto a = std::make_shared<AddOpts>();
   auto* add = scale->add_subcommand("add", "Add a scale");
   add->footer("Examples:\n  scaleproof scale add --id QX-1 --division 20 --unit lb --class IIIL --capacity 120000 \\\n      --inspected 2026-03-18 --seal TC-26-0412");
   add->add_option("--id", a->info.id, "The station's scale id, e.g. ST-3")->required();
-  add->add_option("--division", a->info.division, "Scale division d, in --unit")->required();
+  add->add_option("--division", a->division, "Scale division d, in --unit")
+      ->required()
+      ->type_name("NUMBER");
   add->add_option("--unit", a->unit, "Weight unit of the scale")
       ->check(CLI::IsMember({"lb", "kg"}));
   add->add_option("--class", a->info.accuracy_class, "Accuracy class (III, IIIL)");
   add->add_option("--name", a->info.name, "Name of the scale");
   add->add_option("--location", a->info.location, "Where it is");
-  add->add_option("--capacity", a->capacity, "Capacity of one platform, in --unit");
+  add->add_option("--capacity", a->capacity, "Capacity of one platform, in --unit")
+      ->type_name("NUMBER");
   add->add_option("--reading-uncertainty", a->reading_u,
-                  "Standard uncertainty of a reading, in --unit (default: from the tolerance)");
+                  "Standard uncertainty of a reading, in --unit (default: from the tolerance)")
+      ->type_name("NUMBER");
   add->add_option("--inspected", a->inspected, "Date of the last inspection, YYYY-MM-DD");
   add->add_option("--seal", a->seal, "Seal or certificate number of that inspection");
   add->add_option("--by", a->by, "Who records it (default $SCALEPROOF_OPERATOR, $USER)");
   add->callback([&ctx, a] {
+    const auto& names = scale_flag_names();
     ScaleInfo info = a->info;
-    if (a->capacity != 0) info.capacity = a->capacity;
-    if (a->reading_u != 0) info.reading_uncertainty = a->reading_u;
+    info.division = number_flag(a->division, "division", names).value_or(0);
+    info.capacity = number_flag(a->capacity, "capacity", names);
+    info.reading_uncertainty = number_flag(a->reading_u, "reading_uncertainty", names);
     if (!a->seal.empty() && a->inspected.empty()) {
       throw usage_error("scale add: --seal needs --inspected DATE");
     }
+    auto unit = *parse_weight_unit(a->unit);
+    {
+      ScaleInfo checked = info;  // the inspection is stored on its own row below
+      if (!a->inspected.empty()) checked.last_inspected = a->inspected;
+      validate::scale(checked, unit, names);
+    }
     auto store = open_store(ctx);
     store::Txn txn(*store, store::Txn::write);
-    auto unit = *parse_weight_unit(a->unit);
     long long id = store->add_scale(info, unit, who(a->by), "");
     if (!a->inspected.empty()) {
       store::Inspection in;

@@ -43,8 +43,11 @@ std::string check_iso_date(std::string_view s) {
 }
 
 std::string check_iso_date_time(std::string_view s) {
-  const std::string form = "expected an ISO 8601 date-time with UTC offset, "
-                           "e.g. 2026-10-14T09:12:00-05:00";
+  // A const char*, not a std::string: a valid date-time allocates nothing (it is checked on
+  // every row of a CSV import).
+  const char* const form =
+      "expected an ISO 8601 date-time with UTC offset, "
+      "e.g. 2026-10-14T09:12:00-05:00";
   if (s.size() < 17) return form;
   if (auto e = date_part(s); !e.empty()) return e + " (" + form + ")";
   if (s[10] != 'T' || s[13] != ':') return form;
@@ -65,7 +68,9 @@ std::string check_iso_date_time(std::string_view s) {
       pos = frac;
     }
   }
-  if (pos == s.size()) return "missing the UTC offset (Z or +hh:mm / -hh:mm); " + form;
+  if (pos == s.size()) {
+    return std::string("missing the UTC offset (Z or +hh:mm / -hh:mm); ") + form;
+  }
   if (s[pos] == 'Z') return pos + 1 == s.size() ? "" : form;
   if (s[pos] != '+' && s[pos] != '-') return form;
   const int oh = digits(s, pos + 1, 2), om = digits(s, pos + 4, 2);

@@ -7,6 +7,7 @@
 
 #include "core/error.h"
 #include "core/typo.h"
+#include "format/validate.h"
 
 namespace sp::format {
 
@@ -135,11 +136,8 @@ std::string describe_json(const json& v) {
     case json::value_t::boolean: return v.get<bool>() ? "true" : "false";
     case json::value_t::object: return "an object";
     case json::value_t::array: return "an array";
-    case json::value_t::string: {
-      std::string s = v.get<std::string>();
-      if (s.size() > 40) s = s.substr(0, 37) + "...";
-      return json(s).dump(-1, ' ', false, json::error_handler_t::replace);
-    }
+    case json::value_t::string:
+      return validate::quoted(v.get_ref<const std::string&>());
     case json::value_t::number_integer:
     case json::value_t::number_unsigned:
     case json::value_t::number_float: return number_text(v.get<double>());
@@ -185,63 +183,26 @@ const json& ObjectReader::required(const std::string& key) const {
   return *v;
 }
 
-namespace {
-
-std::size_t code_points(const std::string& s) {
-  return static_cast<std::size_t>(std::count_if(
-      s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
-}
-
-}  // namespace
-
-std::string ObjectReader::string(const std::string& key, std::size_t max_chars,
-                                 bool allow_empty) const {
+std::string ObjectReader::string(const std::string& key) const {
   const json& v = required(key);
   if (!v.is_string()) fail(key, "expected a string, got " + describe_json(v));
-  std::string s = v.get<std::string>();
-  if (!allow_empty && s.empty()) fail(key, "expected a non-empty string, got \"\"");
-  if (code_points(s) > max_chars) {
-    fail(key, "expected at most " + std::to_string(max_chars) + " characters, got " +
-                  std::to_string(code_points(s)));
-  }
-  // Labels end up on one line of a report; notes (long strings) may hold line breaks.
-  const bool multiline = max_chars > 200;
-  for (char c : s) {
-    const auto b = static_cast<unsigned char>(c);
-    if (b < 0x20 && !(multiline && (c == '\n' || c == '\t'))) {
-      fail(key, "expected printable text, got a control character (code " +
-                    std::to_string(static_cast<int>(b)) + ")");
-    }
-  }
-  return s;
+  return v.get<std::string>();
 }
 
-std::optional<std::string> ObjectReader::optional_string(const std::string& key,
-                                                         std::size_t max_chars) const {
+std::optional<std::string> ObjectReader::optional_string(const std::string& key) const {
   if (!has(key)) return std::nullopt;
-  return string(key, max_chars, true);
+  return string(key);
 }
 
-double ObjectReader::number(const std::string& key, double lo, double hi, bool lo_open,
-                            const std::string& what, const std::string& unit) const {
+double ObjectReader::number(const std::string& key) const {
   const json& v = required(key);
-  const std::string u = unit.empty() ? "" : " " + unit;
-  const std::string range = lo_open ? "greater than " + number_text(lo) + " and at most " +
-                                          number_text(hi) + u
-                                    : "between " + number_text(lo) + " and " + number_text(hi) + u;
-  if (!v.is_number()) fail(key, "expected " + what + " " + range + ", got " + describe_json(v));
-  const double d = v.get<double>();
-  if (!std::isfinite(d) || d > hi || d < lo || (lo_open && d == lo)) {
-    fail(key, "expected " + what + " " + range + ", got " + describe_json(v));
-  }
-  return d;
+  if (!v.is_number()) fail(key, "expected a number, got " + describe_json(v));
+  return v.get<double>();
 }
 
-std::optional<double> ObjectReader::optional_number(const std::string& key, double lo, double hi,
-                                                    bool lo_open, const std::string& what,
-                                                    const std::string& unit) const {
+std::optional<double> ObjectReader::optional_number(const std::string& key) const {
   if (!has(key)) return std::nullopt;
-  return number(key, lo, hi, lo_open, what, unit);
+  return number(key);
 }
 
 std::optional<long long> ObjectReader::optional_integer(const std::string& key,

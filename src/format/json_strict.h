@@ -2,6 +2,7 @@
 //
 // Contract: every failure throws sp::Error(data_error) whose message is
 //   "<source>: <JSON path>: expected <what>, got <what was there>"
+// Types only: ranges and text content are format/validate.h's, the one validator.
 // with the JSON path in the "$.a.b[2].c" form. Syntax errors carry "line L, column C" (1-based,
 // columns counted in bytes of the line; the column is where the parser stopped, i.e. the end of
 // an offending string or number token) instead of a path. Pure: strings in, values out.
@@ -49,16 +50,12 @@ class ObjectReader {
   const std::string& path() const { return path_; }
   const std::string& source() const { return source_; }
 
-  // A string of at most max_chars characters (UTF-8 code points), no control characters.
-  std::string string(const std::string& key, std::size_t max_chars, bool allow_empty) const;
-  std::optional<std::string> optional_string(const std::string& key, std::size_t max_chars) const;
-  // A finite number within [lo, hi] (lo excluded when lo_open). `what` names the quantity,
-  // `unit` its unit (may be empty), for the message "expected a weight between 0 and ...".
-  double number(const std::string& key, double lo, double hi, bool lo_open,
-                const std::string& what, const std::string& unit) const;
-  std::optional<double> optional_number(const std::string& key, double lo, double hi,
-                                        bool lo_open, const std::string& what,
-                                        const std::string& unit) const;
+  // A string (its content is judged by format/validate.h, not here).
+  std::string string(const std::string& key) const;
+  std::optional<std::string> optional_string(const std::string& key) const;
+  // A number (finite: JSON has no others); its range is judged by format/validate.h.
+  double number(const std::string& key) const;
+  std::optional<double> optional_number(const std::string& key) const;
   std::optional<long long> optional_integer(const std::string& key, long long lo) const;
   std::optional<bool> optional_bool(const std::string& key) const;
 

@@ -1,13 +1,15 @@
 #include "format/pass_csv.h"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <charconv>
-#include <iterator>
 #include <cmath>
-#include <fmt/format.h>
+#include <iterator>
 
 #include "core/error.h"
 #include "format/iso8601.h"
+#include "format/validate.h"
 
 namespace sp {
 
@@ -22,40 +24,31 @@ constexpr const char* kNames[kNumCols] = {
     "drive", "trailer", "gross", "ticket_scale", "entered_by", "entered_at", "void_reason"};
 constexpr bool kRequired[kNumCols] = {true, false, false, false, true, false, true, true,
                                       true, true, false, false, false, false, false, false};
+// How the validator judges each text column (format/validate.h); weights are numbers.
+using validate::Text;
+constexpr Text kText[kNumCols] = {Text::ticket, Text::label,  Text::label,  Text::label,
+                                  Text::label,  Text::ticket, Text::ticket, Text::label,
+                                  Text::label,  Text::label,  Text::label,  Text::label,
+                                  Text::label,  Text::label,  Text::label,  Text::label};
 
 std::string shown(std::string_view v) {
-  if (v.size() > 40) return "'" + std::string(v.substr(0, 40)) + "...' (" +
-                            std::to_string(v.size()) + " bytes)";
-  return "'" + std::string(v) + "'";
+  return validate::quoted(v);
+}
+
+bool starts_with_formula_trigger(std::string_view v) {
+  return !v.empty() && std::string_view(kFormulaTriggers).find(v[0]) != std::string_view::npos;
 }
 
 }  // namespace
 
-bool is_clean_utf8(std::string_view s) {
-  size_t i = 0;
-  while (i < s.size()) {
-    auto c = static_cast<unsigned char>(s[i]);
-    if (c < 0x80) {
-      if ((c < 0x20 && c != '\t') || c == 0x7f) return false;
-      ++i;
-      continue;
-    }
-    size_t n = (c & 0xe0) == 0xc0 ? 1 : (c & 0xf0) == 0xe0 ? 2 : (c & 0xf8) == 0xf0 ? 3 : 9;
-    if (n == 9 || c == 0xc0 || c == 0xc1 || c > 0xf4) return false;
-    if (i + n >= s.size()) return false;  // truncated sequence
-    unsigned cp = c & (0x3f >> n);
-    for (size_t k = 1; k <= n; ++k) {
-      auto cc = static_cast<unsigned char>(s[i + k]);
-      if ((cc & 0xc0) != 0x80) return false;
-      cp = (cp << 6) | (cc & 0x3f);
-    }
-    if ((n == 2 && cp < 0x800) || (n == 3 && (cp < 0x10000 || cp > 0x10ffff)) ||
-        (cp >= 0xd800 && cp <= 0xdfff)) {
-      return false;
-    }
-    i += n + 1;
-  }
-  return true;
+bool needs_text_prefix(std::string_view v) {
+  return starts_with_formula_trigger(v) ||
+         (v.size() > 1 && v[0] == '\'' &&
+          (v[1] == '\'' || starts_with_formula_trigger(v.substr(1))));
+}
+
+std::string_view strip_text_prefix(std::string_view v) {
+  return needs_text_prefix(v) && v[0] == '\'' ? v.substr(1) : v;
 }
 
 PassCsvReader::PassCsvReader(std::istream& in, std::string source)
@@ -104,6 +97,7 @@ bool PassCsvReader::read_record() {
     if (!buf_.empty()) break;
   }
   record_line_ = line_;
+  multiline_ = false;
   size_t n = 0;  // fields used
   auto next_field = [&]() -> std::string& {
     if (n == fields_.size()) fields_.emplace_back();
@@ -124,6 +118,7 @@ bool PassCsvReader::read_record() {
       bytes_ += more.size() + 1;
       if (!more.empty() && more.back() == '\r') more.pop_back();
       f->push_back('\n');
+      multiline_ = true;
       buf_ = std::move(more);
       i = 0;
       continue;
@@ -173,41 +168,31 @@ bool PassCsvReader::next(CsvPassRow& row) {
   auto text = [&](int col) -> std::optional<std::string> {
     const std::string* v = field(col);
     if (v == nullptr) return std::nullopt;
-    if (v->size() > kMaxCsvText) {
-      fail(kNames[col], fmt::format("expected at most {} bytes, got {}", kMaxCsvText, shown(*v)));
+    if (multiline_ && v->find('\n') != std::string::npos) {
+      fail(kNames[col], "expected one line of text, got a newline inside a quoted field");
     }
-    if (!is_clean_utf8(*v)) {
-      fail(kNames[col], "expected UTF-8 text without control characters, got invalid bytes");
+    // A cell the writer guarded against spreadsheet formulas ("'=...") reads back as written
+    // before the guard (docs/csv.md).
+    const std::string_view t = strip_text_prefix(*v);
+    if (std::string why = validate::text_fault(t, kText[col]); !why.empty()) {
+      fail(kNames[col], why);
     }
-    return *v;
+    return std::string(t);
   };
   auto required = [&](int col) -> std::string {
     auto v = text(col);
     if (!v) fail(kNames[col], "expected a value, got an empty field");
     return *v;
   };
+  // Weights are plain decimals (validate::parse_number); their range depends on the scale's
+  // unit, so the store judges it (validate::pass). A negative number is read as one, so its
+  // message is the range's; the formula guard never applies to these columns (docs/csv.md).
   auto weight = [&](int col) -> std::optional<double> {
     const std::string* v = field(col);
     if (v == nullptr) return std::nullopt;
     double x = 0;
-    const char* b = v->data();
-    const char* e = b + v->size();
-    bool plain = true;  // decimal digits with an optional fraction: no signs, exponents, spaces
-    int dots = 0;
-    for (char c : *v) {
-      if (c == '.') ++dots;
-      else if (c < '0' || c > '9') plain = false;
-    }
-    auto [p, ec] = std::from_chars(b, e, x, std::chars_format::fixed);
-    if (!plain || dots > 1 || ec != std::errc() || p != e || !std::isfinite(x)) {
-      fail(kNames[col], fmt::format("expected a weight >= 0 (digits, optional decimals), got {}",
-                                    shown(*v)));
-    }
-    // No vehicle scale reads a billion of anything; past that a value is a typo, and keeping it
-    // out also keeps every accepted number writable in plain (non-exponent) form, so export and
-    // import round-trip (regression: huge_integer_written_in_exponent_form.csv).
-    if (x > 1e9) {
-      fail(kNames[col], fmt::format("expected a weight below 1000000000, got {}", shown(*v)));
+    if (!validate::parse_number(*v, x)) {
+      fail(kNames[col], "expected a number, got " + shown(*v));
     }
     return x;
   };
@@ -225,13 +210,12 @@ bool PassCsvReader::next(CsvPassRow& row) {
   p.ticket = required(kTicket);
   p.weighed_at = required(kWeighedAt);
   if (auto why = format::check_iso_date_time(p.weighed_at); !why.empty()) {
-    fail("weighed_at", fmt::format("expected an ISO 8601 date-time with offset such as "
-                                   "2026-11-03T09:14:00-06:00, got {} ({})", shown(p.weighed_at), why));
+    fail("weighed_at", why + ", got " + shown(p.weighed_at));  // validate::pass's wording
   }
   auto steer = weight(kSteer);
-  if (!steer) fail("steer", "expected a weight, got an empty field");
+  if (!steer) fail("steer", "expected a number, got an empty field");
   auto drive = weight(kDrive);
-  if (!drive) fail("drive", "expected a weight, got an empty field");
+  if (!drive) fail("drive", "expected a number, got an empty field");
   p.steer = *steer;
   p.drive = *drive;
   p.trailer = weight(kTrailer);
@@ -241,8 +225,7 @@ bool PassCsvReader::next(CsvPassRow& row) {
   p.entered_at = text(kEnteredAt);
   if (p.entered_at) {
     if (auto why = format::check_iso_date_time(*p.entered_at); !why.empty()) {
-      fail("entered_at", fmt::format("expected an ISO 8601 date-time with offset, got {} ({})",
-                                     shown(*p.entered_at), why));
+      fail("entered_at", why + ", got " + shown(*p.entered_at));
     }
   }
   p.id.reset();
@@ -252,12 +235,19 @@ bool PassCsvReader::next(CsvPassRow& row) {
 }
 
 namespace {
+// A cell a spreadsheet would take for a formula (it starts with = + - @ tab or CR) is written
+// as "'=...": a leading single quote inside a quoted cell, which spreadsheets show as text
+// (OWASP "CSV Injection"). A cell that starts with a quote before such a character (or before
+// another quote) gets one too, so the reader's rule -- drop one leading quote before those --
+// gives back exactly what was stored.
 void put_text(std::string& out, std::string_view v) {
-  if (v.find_first_of(",\"\r\n") == std::string_view::npos) {
+  const bool guard = needs_text_prefix(v);
+  if (!guard && v.find_first_of(",\"\r\n") == std::string_view::npos) {
     out.append(v);
     return;
   }
   out.push_back('"');
+  if (guard) out.push_back('\'');
   for (char c : v) {
     if (c == '"') out.push_back('"');
     out.push_back(c);

@@ -20,6 +20,9 @@
 //   entered_at   when it was keyed in (ISO 8601); empty: the import time
 //   void_reason  non-empty: the pass is stored and voided at once with this reason
 // Unknown or repeated column names are refused. Empty optional fields mean "not given".
+// Text cells are judged by validate::text_fault (format/validate.h); a text cell starting with
+// a formula character is written "'=..." and read back as stored (docs/csv.md). Weights are
+// plain decimals here; their ranges need the scale's unit, so the importer runs validate::pass.
 // Errors are sp::Error(data_error) "<source>:<line>: <column>: <what was expected>, got ...".
 #pragma once
 #include <cstdint>
@@ -40,10 +43,6 @@ struct CsvPassRow {
   Pass pass;
 };
 
-// Longest text field accepted (tickets, keys, names); longer values are refused as likely
-// garbage rather than stored (common practice for record keys).
-inline constexpr size_t kMaxCsvText = 256;
-
 class PassCsvReader {
  public:
   // Reads and checks the header; throws data_error on a bad or missing header.
@@ -57,6 +56,7 @@ class PassCsvReader {
 
  private:
   bool read_record();
+  bool multiline_ = false;  // the record held a quoted line break
   [[noreturn]] void fail(std::string_view column, const std::string& what) const;
   const std::string* field(int col) const;  // nullptr when absent or empty
   std::istream& in_;
@@ -74,7 +74,13 @@ std::string pass_csv_header();
 // Appends one row (with "\n"). Numbers are written in shortest round-trip form.
 void write_pass_csv_row(std::string& out, const CsvPassRow& row);
 
-// Well-formed UTF-8 without control characters other than tab.
-bool is_clean_utf8(std::string_view s);
+// Spreadsheet formula guard (OWASP "CSV Injection"): a text cell starting with one of these is
+// written with a leading single quote; see docs/csv.md.
+inline constexpr const char* kFormulaTriggers = "=+-@\t\r";
+// True when the writer prefixes `v` with a single quote: it starts with a formula trigger, or
+// with a quote followed by a trigger or another quote.
+bool needs_text_prefix(std::string_view v);
+// The reader's inverse: `v` without its guard quote (unchanged when it has none).
+std::string_view strip_text_prefix(std::string_view v);
 
 }  // namespace sp

@@ -7,8 +7,24 @@
 
 #include "core/error.h"
 #include "format/pass_csv.h"
+#include "format/validate.h"
 
 namespace sp::store {
+
+namespace {
+// "<source>:<line>: <column>", the CSV's names for the validator (built only on failure).
+class CsvLineNames final : public validate::FieldNames {
+ public:
+  CsvLineNames(const std::string& source, const long& line) : source_(source), line_(line) {}
+  std::string name(std::string_view field) const override {
+    return fmt::format("{}:{}: {}", source_, line_, field);
+  }
+
+ private:
+  const std::string& source_;
+  const long& line_;
+};
+}  // namespace
 
 ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& source,
                             const std::optional<std::string>& by,
@@ -18,7 +34,9 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
   CsvPassRow row;
   std::string last_ref;
   long long session_id = 0;
-  std::map<std::string, long long> scale_ids;  // scale code -> id (a station has few)
+  WeightUnit unit = WeightUnit::lb;  // the current session's scale unit
+  const CsvLineNames names(source, row.line);
+  std::map<std::string, std::pair<long long, WeightUnit>> scale_ids;  // code -> id, unit
   std::map<std::string, long long> rig_ids;    // rig name -> id (rigs repeat across sessions)
   // Consecutive passes of one session go to the store together (one INSERT for up to
   // kBatch rows): the statement's fixed cost is most of a row's cost (bench/README.md).
@@ -61,8 +79,9 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
         auto found = store.find_session_by_ref(row.session);
         if (found) {
           session_id = *found;
+          Session s = store.load_session(session_id);
+          unit = s.units.weight;
           if (row.scale) {
-            Session s = store.load_session(session_id);
             if (s.scale.id != *row.scale) {
               throw data_error(fmt::format("scale: session {} is on scale {}, the row says {}",
                                            row.session, s.scale.id, *row.scale));
@@ -79,8 +98,9 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
               throw Error(ExitCode::data_error,
                           "scale: " + *row.scale + " is not in the store (add it with `scaleproof scale add`)");
             }
-            it = scale_ids.emplace(*row.scale, sc->id).first;
+            it = scale_ids.emplace(*row.scale, std::pair{sc->id, sc->unit}).first;
           }
+          unit = it->second.second;
           auto rit = rig_ids.find(*row.rig);
           if (rit == rig_ids.end()) {
             auto rig = store.find_rig(*row.rig);
@@ -92,7 +112,7 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
           NewSession ns;
           ns.ref = row.session;
           ns.rig_id = rit->second;
-          ns.scale_id = it->second;
+          ns.scale_id = it->second.first;
           ns.operator_name = row.operator_name;
           ns.opened_by = by;
           session_id = store.open_session(ns);
@@ -103,6 +123,8 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     } catch (const Error& e) {
       throw at_line(row.line, e);
     }
+    // The row's own checks, named by line and column (the store checks again, by ticket).
+    validate::pass(row.pass, unit, names);
     if (!row.pass.entered_by) row.pass.entered_by = by;
     pending.push_back(row.pass);
     pending_lines.push_back(row.line);

@@ -1,80 +1,50 @@
 #include "store/pass_rules.h"
 
-#include <cmath>
 #include <fmt/format.h>
 
 #include "core/error.h"
+#include "format/validate.h"
 
 namespace sp::store {
 
-double plausible_max(WeightUnit unit) { return unit == WeightUnit::lb ? 100000.0 : 45000.0; }
+namespace {
+// The store names fields by their model names ("steer"); callers add "ticket ..., pass ...".
+// (An empty prefix is held in the string itself: nothing is allocated.)
+validate::PrefixNames bare_names() {
+  return validate::PrefixNames("");
+}
+}  // namespace
+
+double plausible_max(WeightUnit unit) {
+  Units u;
+  u.weight = unit;
+  return validate::range(validate::Quantity::reading, u).hi;
+}
 
 void check_reading(std::string_view platform, double value, const ScaleInfo& scale,
                    WeightUnit unit) {
-  auto u = to_string(unit);
-  if (!std::isfinite(value) || value < 0) {
-    throw data_error(fmt::format("{} platform: expected a reading >= 0 {}, got {}", platform, u,
-                                 value));
-  }
-  double max = scale.capacity.value_or(plausible_max(unit));
-  if (value > max) {
-    throw data_error(fmt::format("{} platform: reading {} {} is above the {} of {} {}", platform,
-                                 value, u, scale.capacity ? "scale capacity" : "plausible limit",
-                                 max, u));
-  }
-  double d = scale.division;
-  if (d > 0) {
-    double n = value / d;
-    if (std::fabs(n - std::round(n)) > 1e-6) {
-      throw data_error(fmt::format(
-          "{} platform: reading {} {} is not a multiple of the scale division {} {}", platform,
-          value, u, d, u));
-    }
-  }
+  Units u;
+  u.weight = unit;
+  validate::number(value, validate::Quantity::reading, u, platform, bare_names());
+  Pass p;
+  p.steer = value;
+  const validate::TableNames names({{"steer", platform}});
+  validate::pass_on_scale(p, scale, unit, names);
 }
 
 void check_gross(const Pass& pass, WeightUnit unit) {
   if (!pass.gross) return;
-  double sum = pass.steer + pass.drive + pass.trailer.value_or(0);
-  if (std::fabs(*pass.gross - sum) > 1e-9 * std::max(1.0, sum)) {
-    throw data_error(fmt::format("gross: printed gross {} {} is not the sum of the platforms "
-                                 "({} + {} + {} = {} {})",
-                                 *pass.gross, to_string(unit), pass.steer, pass.drive,
-                                 pass.trailer.value_or(0), sum, to_string(unit)));
-  }
+  ScaleInfo any;  // gross = sum needs no scale data
+  validate::pass_on_scale(pass, any, unit, bare_names());
 }
 
 void check_pass(const Pass& pass, const ScaleInfo& scale, WeightUnit unit) {
   if (pass.ticket.empty()) throw data_error("ticket: expected a ticket number, got nothing");
+  // The ticket goes into the context of every other message, so it is judged first, alone.
+  validate::text(pass.ticket, validate::Text::ticket, "ticket", bare_names());
   try {
-    check_reading("steer", pass.steer, scale, unit);
-    check_reading("drive", pass.drive, scale, unit);
-    if (pass.kind == PassKind::unhitched) {
-      if (pass.trailer && *pass.trailer != 0) {
-        throw data_error(fmt::format(
-            "trailer platform: expected no reading (or 0) on an unhitched pass, got {} {}",
-            *pass.trailer, to_string(unit)));
-      }
-    } else {
-      if (!pass.trailer) {
-        throw data_error("trailer platform: expected a reading on a hitched or tensioned pass");
-      }
-      check_reading("trailer", *pass.trailer, scale, unit);
-    }
-    if (pass.gross) {
-      if (!std::isfinite(*pass.gross) || *pass.gross < 0) {
-        throw data_error(fmt::format("gross: expected a weight >= 0, got {}", *pass.gross));
-      }
-      check_gross(pass, unit);
-    }
-    if (pass.kind == PassKind::tensioned) {
-      if (!pass.setting || pass.setting->empty()) {
-        throw data_error("setting: expected the bar tension setting of a tensioned pass");
-      }
-    } else if (pass.setting) {
-      throw data_error(fmt::format("setting: only tensioned passes have a bar setting, got '{}'",
-                                   *pass.setting));
-    }
+    validate::pass(pass, unit, bare_names());
+    validate::pass_on_scale(pass, scale, unit, bare_names());
   } catch (const Error& e) {
     throw e.within(fmt::format("ticket {}, pass {}", pass.ticket, to_string(pass.kind)));
   }

@@ -1,45 +1,19 @@
 // Rigs: a tow vehicle row, a trailer row and the rig row that joins them under a name.
-#include <cmath>
 #include <fmt/format.h>
 
+#include "format/validate.h"
 #include "store/sqlite_store.h"
 
 namespace sp::store {
 
 namespace {
 
-void need_positive(const char* field, double v) {
-  if (!(std::isfinite(v) && v > 0)) {
-    throw data_error(fmt::format("{}: expected a number > 0, got {}", field, v));
-  }
-}
-void need_positive(const char* field, const std::optional<double>& v) {
-  if (v) need_positive(field, *v);
-}
-
 void check_rig(const RigRecord& r) {
   if (r.name.empty()) throw data_error("name: expected a rig name, got nothing");
+  // The name goes into the context of every other message, so it is judged first, alone.
+  validate::text(r.name, validate::Text::label, "name", validate::PrefixNames(""));
   try {
-    const TowVehicle& v = r.vehicle;
-    need_positive("wheelbase", v.wheelbase);
-    if (!std::isfinite(v.rear_axle_to_ball) || std::fabs(v.rear_axle_to_ball) >= v.wheelbase * 4) {
-      throw data_error(fmt::format("rear_axle_to_ball: expected a finite length shorter than "
-                                   "four wheelbases, got {}", v.rear_axle_to_ball));
-    }
-    need_positive("gvwr", v.gvwr);
-    need_positive("front_gawr", v.front_gawr);
-    need_positive("rear_gawr", v.rear_gawr);
-    need_positive("gcwr", v.gcwr);
-    need_positive("hitch_tongue_rating", v.hitch_tongue_rating);
-    need_positive("hitch_trailer_rating", v.hitch_trailer_rating);
-    if (v.falr_target && !(*v.falr_target > 0 && *v.falr_target <= 100)) {
-      // Restoration above 100 % is not recommended (SAE J2807, as quoted; see references.md).
-      throw data_error(fmt::format("falr_target: expected a percentage in (0, 100], got {}",
-                                   *v.falr_target));
-    }
-    need_positive("ball_to_axle", r.trailer.ball_to_axle);
-    need_positive("trailer gvwr", r.trailer.gvwr);
-    need_positive("trailer axle_gawr", r.trailer.axle_gawr);
+    validate::rig(r.units, r.vehicle, r.trailer, validate::PrefixNames(""));
   } catch (const Error& e) {
     throw e.within("rig " + r.name);
   }

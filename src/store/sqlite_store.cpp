@@ -1,12 +1,14 @@
 #include "store/sqlite_store.h"
 
+#include <fmt/format.h>
+
 #include <cmath>
 #include <cstring>
 #include <ctime>
-#include <fmt/format.h>
 
 #include "core/embedded.h"
 #include "format/iso8601.h"
+#include "format/validate.h"
 
 namespace sp::store {
 
@@ -341,20 +343,15 @@ ScaleRecord read_scale(const Stmt& q) {
   return r;
 }
 
-void check_positive(const char* field, const std::optional<double>& v) {
-  if (v && !(std::isfinite(*v) && *v > 0)) {
-    throw data_error(fmt::format("{}: expected a number > 0, got {}", field, *v));
-  }
-}
 }  // namespace
 
 long long SqliteStore::add_scale(const ScaleInfo& info, WeightUnit unit,
                                  const std::optional<std::string>& by, const std::string& at) {
   if (info.id.empty()) throw data_error("scale id: expected a name such as ST-3, got nothing");
+  // The id goes into the context of every other message, so it is judged first, alone.
+  validate::text(info.id, validate::Text::label, "scale id", validate::PrefixNames(""));
   try {
-    check_positive("division", info.division);
-    check_positive("capacity", info.capacity);
-    check_positive("reading_uncertainty", info.reading_uncertainty);
+    validate::scale(info, unit, validate::PrefixNames(""));
     if (find_scale(info.id)) throw data_error("a scale with this id is already in the store");
   } catch (const Error& e) {
     throw e.within("scale " + info.id);

@@ -60,7 +60,7 @@ def write_all(here):
           "the same column twice")
     variant("csv_steer_text.csv", ":3: steer", "reading is text", 1, "steer", "abc")
     variant("csv_steer_negative.csv", ":2: steer", "negative reading", 0, "steer", "-20")
-    variant("csv_drive_absurd.csv", ":4: ticket C-0001003, pass tensioned: drive", "9 000 000 lb on one platform", 2, "drive",
+    variant("csv_drive_absurd.csv", ":4: drive", "9 000 000 lb on one platform", 2, "drive",
             "9000000")
     variant("csv_huge_number.csv", ":5: trailer", "1e400 overflows a double", 3, "trailer",
             "1e400")
@@ -90,13 +90,26 @@ def write_all(here):
             "R-404")
     variant("csv_unknown_scale.csv", ":2: scale", "a scale the store does not have", 0,
             "scale", "ST-9")
-    variant("csv_unhitched_trailer.csv", ":2: ticket C-0001001, pass unhitched: trailer", "trailer reading on an unhitched pass",
+    variant("csv_unhitched_trailer.csv", ":2: trailer", "trailer reading on an unhitched pass",
             0, "trailer", "200")
     variant("csv_gross_mismatch.csv", ":3: ticket C-0001002, pass hitched: gross", "printed gross is not the sum", 1, "gross",
             "99999")
     variant("csv_date_no_offset.csv", ":4: weighed_at", "time without its UTC offset", 2,
             "weighed_at", "2026-01-01T09:12:00")
     variant("csv_kind_unknown.csv", ":3: kind", "pass kind 'coupled'", 1, "kind", "coupled")
+    # Text that displays differently from what is stored, control characters, quoted newlines.
+    variant("csv_name_bidi.csv", ":3: entered_by: expected text without invisible",
+            "right-to-left override U+202E in a name", 1, "entered_by", "ben\u202ehc")
+    variant("csv_ticket_bom.csv", ":2: ticket: expected text without invisible",
+            "U+FEFF inside a ticket", 0, "ticket", "C-000\ufeff1001")
+    variant("csv_ticket_esc.csv",
+            ":4: ticket: expected text without control characters, got control character U+001B",
+            "ESC in a ticket", 2, "ticket", "C-0001\x1b003")
+    variant("csv_newline_quoted.csv",
+            ":3: entered_by: expected one line of text, got a newline inside a quoted field",
+            "a newline inside a quoted field", 1, "entered_by", '"ben\nch"')
+    variant("csv_formula_steer.csv", ":2: steer: expected a number, got \"=4460\"",
+            "a formula where a reading belongs", 0, "steer", "=4460")
     # All-or-nothing at size: 2 000 good rows in 500 new sessions, then one bad row.
     many = []
     for n in range(500):

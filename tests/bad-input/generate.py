@@ -140,6 +140,17 @@ write("json_utf16.json", b"\xff\xfe" + good.decode("utf-8").encode("utf-16-le"),
       "json_utf16.json", "the file saved as UTF-16")
 write("json_nul_byte.json", good.replace(b'"T-0001001"', b'"T-00\x0001001"', 1),
       "json_nul_byte.json", "a raw NUL byte inside a string")
+# --- text that displays differently from what is stored (format/validate.h)
+variant("json_label_bidi.json", "$.tow_vehicle.label: expected text without invisible",
+        "right-to-left override U+202E in a label", setk("tow_vehicle", "label", "Bench\u202epickup"))
+variant("json_ticket_zero_width.json", "$.passes[1].ticket: expected text without invisible",
+        "zero width space U+200B in a ticket", setp(1, "ticket", "T-000\u200b1002"))
+variant("json_label_isolate.json", "$.trailer.label: expected text without invisible",
+        "right-to-left isolate U+2067 in a label", setk("trailer", "label", "Bench\u2067camper"))
+variant("json_label_esc.json", "$.tow_vehicle.label: expected text without control characters, got control character U+001B",
+        "ESC in a label", setk("tow_vehicle", "label", "Bench\u001b[31mpickup"))
+variant("json_gvwr_huge.json", "$.tow_vehicle.gvwr: expected a rating greater than 0 and at most 200000 lb",
+        "GVWR 1e308 (a 309-digit limit)", setk("tow_vehicle", "gvwr", 1e308))
 
 
 if __name__ == "__main__":

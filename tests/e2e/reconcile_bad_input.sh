@@ -13,7 +13,7 @@ check_bad() {  # FILE EXPECTED-SUBSTRING
 }
 check_bad bad-negative-steer.json '$.passes[2].steer: expected a weight between 0 and 200000 lb, got -40'
 check_bad bad-unknown-key.json "\$.tow_vehicle.wheelbse: unknown key 'wheelbse'; did you mean 'wheelbase'?"
-check_bad bad-duplicate-ticket.json '$.passes[2].ticket: ticket "2" is already used by $.passes[1]'
+check_bad bad-duplicate-ticket.json '$.passes[2].ticket: ticket "2" is already used by passes[1]'
 check_bad bad-unhitched-trailer.json '$.passes[0].trailer: expected no trailer reading (or 0) on an unhitched pass, got 40 lb'
 check_bad bad-unknown-unit.json '$.units.length: unknown length unit "inch"; expected one of: in, ft, mm, cm, m'
 check_bad bad-syntax.json 'line 2, column'

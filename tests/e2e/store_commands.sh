@@ -27,9 +27,9 @@ add() { "$SP" pass add --session 1 --weighed-at 2026-11-03T09:14:00-06:00 --by "
 expect_exit 0 add --kind unhitched --ticket A-1001 --steer 4600 --drive 3900 --gross 8500
 expect_exit 0 add --kind hitched --ticket A-1002 --steer 4340 --drive 4960 --trailer 6200
 expect_exit 0 add --kind tensioned --setting 4 --ticket A-1003 --steer 4460 --drive 4760 --trailer 6280
-# Refusals name ticket, pass and platform; nothing is stored.
+# Refusals name the flag (the validator, format/validate.h); nothing is stored.
 expect_exit 65 add --kind tensioned --setting 5 --ticket B-1042 --steer 4460 --drive 4705 --trailer 6280
-expect_in err "ticket B-1042, pass tensioned: drive platform: reading 4705 lb is not a multiple"
+expect_in err "--drive: reading 4705 lb is not a multiple of the scale division 20 lb"
 expect_exit 65 add --kind unhitched --ticket A-1001 --steer 4600 --drive 3900
 expect_in err "already in session 1"
 # Missing field with stdin not a terminal: usage error naming the flag.

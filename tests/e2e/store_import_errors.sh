@@ -10,7 +10,7 @@ expect_exit 0 "$SP" check-store
 before="$(cat "$WORK/out")"
 # Two files in one command: the good one is not kept when the second is bad.
 expect_exit 65 "$SP" import "$D/two_sessions.csv" "$D/bad_division.csv"
-expect_in err "bad_division.csv:3: ticket B-1042, pass tensioned: drive platform: reading 4705 lb is not a multiple of the scale division 20 lb"
+expect_in err "bad_division.csv:3: ticket B-1042, pass tensioned: drive: reading 4705 lb is not a multiple of the scale division 20 lb"
 printf 'session,kind,ticket\n' > "$WORK/short.csv"
 expect_exit 65 "$SP" import "$WORK/short.csv"
 expect_in err "short.csv:1: header: missing column weighed_at"

@@ -21,22 +21,22 @@ TEST_CASE("add_pass refuses passes that break the rules, naming ticket and platf
   const Row rows[] = {
       // A scale indicates in whole divisions (NIST Handbook 44 §2.20; d = 20 lb here).
       {"not a multiple of d", make_pass(PassKind::tensioned, "B-1042", 4460, 4705, 6280, "4"),
-       "ticket B-1042, pass tensioned: drive platform: reading 4705 lb is not a multiple of the "
+       "ticket B-1042, pass tensioned: drive: reading 4705 lb is not a multiple of the "
        "scale division 20 lb"},
       {"negative", make_pass(PassKind::unhitched, "B-1", -20, 3900),
-       "steer platform: expected a reading >= 0"},
+       "steer: expected a weight between 0 and 200000 lb, got -20"},
       {"above capacity", make_pass(PassKind::unhitched, "B-1", 4600, 60020),
        "above the scale capacity of 60000 lb"},
       // The printed gross of a three-platform ticket is the sum (common practice).
       {"gross not the sum", gross_bad, "is not the sum of the platforms"},
       {"trailer on unhitched", make_pass(PassKind::unhitched, "B-4", 4600, 3900, 20),
-       "expected no reading (or 0) on an unhitched pass"},
+       "trailer: expected no trailer reading (or 0) on an unhitched pass"},
       {"no trailer on hitched", make_pass(PassKind::hitched, "B-5", 4340, 4960),
-       "expected a reading on a hitched or tensioned pass"},
+       "trailer: missing required field 'trailer': a hitched pass needs"},
       {"tensioned without setting", make_pass(PassKind::tensioned, "B-6", 4460, 4760, 6280),
-       "setting: expected the bar tension setting"},
+       "setting: missing required field 'setting': a tensioned pass needs"},
       {"setting on hitched", make_pass(PassKind::hitched, "B-7", 4340, 4960, 6200, "2"),
-       "only tensioned passes have a bar setting"},
+       "setting: a bar setting belongs only on a tensioned pass"},
       {"duplicate ticket", make_pass(PassKind::unhitched, "A-1001", 4600, 3900),
        "ticket A-1001: already in session 1"},
   };
