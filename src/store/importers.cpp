@@ -12,7 +12,7 @@ namespace sp::store {
 
 ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& source,
                             const std::optional<std::string>& by,
-                            const std::function<void(std::uint64_t)>& progress) {
+                            const std::function<void(long long, std::uint64_t)>& progress) {
   PassCsvReader reader(in, source);
   ImportStats stats;
   CsvPassRow row;
@@ -49,7 +49,7 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     }
     long long before = stats.passes;
     stats.passes += static_cast<long long>(ids.size());
-    if (progress && before / 4096 != stats.passes / 4096) progress(reader.bytes_read());
+    if (progress && before / 4096 != stats.passes / 4096) progress(stats.passes, reader.bytes_read());
     pending.clear();
     pending_lines.clear();
     return ids.back();
@@ -104,6 +104,29 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
       throw at_line(row.line, e);
     }
     if (!row.pass.entered_by) row.pass.entered_by = by;
+    if (row.correction_reason) {
+      // A correction row supersedes the pass of its ticket, stored before it: in the store
+      // already, or earlier in this file (hence the flush).
+      flush();
+      try {
+        auto pass_id = store.find_pass(session_id, row.pass.ticket);
+        if (!pass_id) {
+          throw data_error(fmt::format("correction_reason: ticket {} has no pass in session {} "
+                                       "to correct (a correction row comes after its pass)",
+                                       row.pass.ticket, row.session));
+        }
+        store.correct_pass(*pass_id, session_id, row.pass, *row.correction_reason,
+                           row.pass.entered_by, row.pass.entered_at.value_or(""));
+        ++stats.corrected;
+        if (row.void_reason) {
+          store.void_pass(*pass_id, *row.void_reason, row.pass.entered_by, "");
+          ++stats.voided;
+        }
+      } catch (const Error& e) {
+        throw at_line(row.line, e);
+      }
+      continue;
+    }
     pending.push_back(row.pass);
     pending_lines.push_back(row.line);
     if (row.void_reason) {
@@ -119,7 +142,7 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     }
   }
   flush();
-  if (progress) progress(reader.bytes_read());
+  if (progress) progress(stats.passes, reader.bytes_read());
   if (stats.passes == 0) throw data_error(source + ": no passes (only a header)");
   return stats;
 }
@@ -225,6 +248,32 @@ long long import_session(Store& store, const Session& session, const std::string
   } catch (const Error& e) {
     throw e.within(source);
   }
+}
+
+std::string export_pass_csv(const SessionHistory& h) {
+  std::string text = pass_csv_header();
+  CsvPassRow row;
+  row.session = h.ref.value_or(fmt::format("session-{}", h.session.session_id.value_or(0)));
+  row.scale = h.session.scale.id;
+  row.rig = h.rig_name;
+  row.operator_name = h.session.operator_name;
+  for (const Pass& p : h.session.passes) {
+    std::vector<const PassCorrection*> mine;
+    for (const auto& c : h.pass_corrections) {
+      if (c.pass_id == p.id) mine.push_back(&c);
+    }
+    row.correction_reason.reset();
+    row.pass = mine.empty() ? p : mine.front()->was;
+    write_pass_csv_row(text, row);
+    for (const auto* c : mine) {
+      row.pass = c->now;
+      row.pass.voided = c == mine.back() && p.voided;
+      row.pass.void_reason = row.pass.voided ? p.void_reason : std::nullopt;
+      row.correction_reason = c->reason;
+      write_pass_csv_row(text, row);
+    }
+  }
+  return text;
 }
 
 }  // namespace sp::store
