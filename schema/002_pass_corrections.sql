@@ -1,7 +1,7 @@
--- Migration 002: pass corrections, and append-only guards that cost little per inserted row.
+-- Migration 002: pass corrections, and a cheaper check of passes.kind on every inserted row.
 -- Nothing stored is changed: no row of any table is written, rewritten or moved. What changes
--- is the schema (sqlite_schema): one new chained table, the `*_no_replace` triggers replaced,
--- and the text of one CHECK in `passes` rewritten to an equivalent form (see 3 below).
+-- is the schema (sqlite_schema): one new chained table with its guards, and the text of one
+-- CHECK in `passes` rewritten to an equivalent form (see 3 below).
 -- Every old row, its hash and the chain head stay exactly as they were
 -- (store_migrate_test opens a version-1 store made by the version-1 code and proves it).
 
@@ -34,80 +34,16 @@ CREATE TRIGGER pass_corrections_no_update BEFORE UPDATE ON pass_corrections
 CREATE TRIGGER pass_corrections_no_delete BEFORE DELETE ON pass_corrections
   BEGIN SELECT RAISE(ABORT, 'pass_corrections is append-only: rows cannot be deleted'); END;
 
--- 2. The INSERT guards. INSERT OR REPLACE deletes the row it collides with without firing the
--- DELETE trigger when recursive_triggers is off (the stock shell's default: SQLite docs,
--- "CREATE TRIGGER" and "ON CONFLICT"), so a BEFORE INSERT trigger must refuse a row that
--- would collide. 001 asked one EXISTS over `id = NEW.id OR seq = NEW.seq OR key = NEW.key`,
--- which SQLite answers with a multi-index OR (a RowSet, i.e. an ephemeral structure, per row).
--- The chain's own columns do most of the work instead: rows are only ever appended, so a
--- legitimate row's id and seq are above every stored one, and a row at or below the top
--- (a collision, or a row slipped into a gap) is refused with two max() lookups (each one step
--- to the b-tree's last entry). Only a table's other UNIQUE keys need an index probe each.
--- Measured with bench/ledger_import.sql (bench/README.md, "append-only guards").
-DROP TRIGGER scales_no_replace;
-CREATE TRIGGER scales_no_replace BEFORE INSERT ON scales
-  WHEN NEW.id <= (SELECT max(id) FROM scales) OR NEW.seq <= (SELECT max(seq) FROM scales)
-    OR EXISTS (SELECT 1 FROM scales WHERE code = NEW.code)
-  BEGIN SELECT RAISE(ABORT, 'scales is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER scale_inspections_no_replace;
-CREATE TRIGGER scale_inspections_no_replace BEFORE INSERT ON scale_inspections
-  WHEN NEW.id <= (SELECT max(id) FROM scale_inspections)
-    OR NEW.seq <= (SELECT max(seq) FROM scale_inspections)
-  BEGIN SELECT RAISE(ABORT, 'scale_inspections is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER vehicles_no_replace;
-CREATE TRIGGER vehicles_no_replace BEFORE INSERT ON vehicles
-  WHEN NEW.id <= (SELECT max(id) FROM vehicles) OR NEW.seq <= (SELECT max(seq) FROM vehicles)
-  BEGIN SELECT RAISE(ABORT, 'vehicles is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER trailers_no_replace;
-CREATE TRIGGER trailers_no_replace BEFORE INSERT ON trailers
-  WHEN NEW.id <= (SELECT max(id) FROM trailers) OR NEW.seq <= (SELECT max(seq) FROM trailers)
-  BEGIN SELECT RAISE(ABORT, 'trailers is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER rigs_no_replace;
-CREATE TRIGGER rigs_no_replace BEFORE INSERT ON rigs
-  WHEN NEW.id <= (SELECT max(id) FROM rigs) OR NEW.seq <= (SELECT max(seq) FROM rigs)
-    OR EXISTS (SELECT 1 FROM rigs WHERE name = NEW.name)
-  BEGIN SELECT RAISE(ABORT, 'rigs is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER sessions_no_replace;
-CREATE TRIGGER sessions_no_replace BEFORE INSERT ON sessions
-  WHEN NEW.id <= (SELECT max(id) FROM sessions) OR NEW.seq <= (SELECT max(seq) FROM sessions)
-    OR EXISTS (SELECT 1 FROM sessions WHERE ref = NEW.ref)
-  BEGIN SELECT RAISE(ABORT, 'sessions is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER session_closings_no_replace;
-CREATE TRIGGER session_closings_no_replace BEFORE INSERT ON session_closings
-  WHEN NEW.id <= (SELECT max(id) FROM session_closings)
-    OR NEW.seq <= (SELECT max(seq) FROM session_closings)
-    OR EXISTS (SELECT 1 FROM session_closings WHERE session_id = NEW.session_id)
-  BEGIN SELECT RAISE(ABORT, 'session_closings is append-only: a row with this id or key exists and cannot be replaced'); END;
-
--- Passes use their id as seq, so one max() covers both.
-DROP TRIGGER passes_no_replace;
-CREATE TRIGGER passes_no_replace BEFORE INSERT ON passes
-  WHEN NEW.id <= (SELECT max(id) FROM passes)
-    OR EXISTS (SELECT 1 FROM passes WHERE session_id = NEW.session_id AND ticket = NEW.ticket)
-  BEGIN SELECT RAISE(ABORT, 'passes is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER corrections_no_replace;
-CREATE TRIGGER corrections_no_replace BEFORE INSERT ON corrections
-  WHEN NEW.id <= (SELECT max(id) FROM corrections) OR NEW.seq <= (SELECT max(seq) FROM corrections)
-    OR EXISTS (SELECT 1 FROM corrections WHERE pass_id = NEW.pass_id)
-  BEGIN SELECT RAISE(ABORT, 'corrections is append-only: a row with this id or key exists and cannot be replaced'); END;
-
-DROP TRIGGER issued_reports_no_replace;
-CREATE TRIGGER issued_reports_no_replace BEFORE INSERT ON issued_reports
-  WHEN NEW.id <= (SELECT max(id) FROM issued_reports)
-    OR NEW.seq <= (SELECT max(seq) FROM issued_reports)
-    OR EXISTS (SELECT 1 FROM issued_reports WHERE report_id = NEW.report_id)
-  BEGIN SELECT RAISE(ABORT, 'issued_reports is append-only: a row with this id or key exists and cannot be replaced'); END;
-
+-- 2. The INSERT guard of the new table, as 001 guards the others: INSERT OR REPLACE deletes
+-- the row it collides with without firing the DELETE trigger when recursive_triggers is off
+-- (the stock shell's default: SQLite docs, "CREATE TRIGGER" and "ON CONFLICT"), so a BEFORE
+-- INSERT trigger refuses a row that would collide. 001's guards stay as they are: rewritten
+-- with the chain's own columns (a new row's id and seq are above every stored one: two max()
+-- lookups) plus one probe per other UNIQUE key, they measured slower, not faster, than 001's
+-- single EXISTS (bench/README.md, "append-only guards"); a trigger's fixed cost per row is
+-- most of what any of them costs.
 CREATE TRIGGER pass_corrections_no_replace BEFORE INSERT ON pass_corrections
-  WHEN NEW.id <= (SELECT max(id) FROM pass_corrections)
-    OR NEW.seq <= (SELECT max(seq) FROM pass_corrections)
+  WHEN EXISTS (SELECT 1 FROM pass_corrections WHERE id = NEW.id OR seq = NEW.seq)
   BEGIN SELECT RAISE(ABORT, 'pass_corrections is append-only: a row with this id or key exists and cannot be replaced'); END;
 
 -- 3. passes.kind: `kind IN ('unhitched', 'hitched', 'tensioned')` makes SQLite build an
@@ -118,8 +54,8 @@ CREATE TRIGGER pass_corrections_no_replace BEFORE INSERT ON pass_corrections
 -- byte moves (SQLite docs, "ALTER TABLE", section "Making Other Kinds Of Table Schema Changes";
 -- the migration runner lifts SQLITE_DBCONFIG_DEFENSIVE for the migration only). When the text
 -- is not exactly 001's, the replace() changes nothing and the old, equivalent CHECK stays.
--- writable_schema = RESET reloads this connection's schema; the DDL above already moved the
--- schema cookie, so other connections reload theirs.
+-- writable_schema = RESET reloads this connection's schema; the CREATEs above already moved
+-- the schema cookie, so other connections reload theirs.
 PRAGMA writable_schema = ON;
 UPDATE sqlite_schema
   SET sql = replace(sql, 'CHECK (kind IN (''unhitched'', ''hitched'', ''tensioned''))',

@@ -20,9 +20,12 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
   long long session_id = 0;
   std::map<std::string, long long> scale_ids;  // scale code -> id (a station has few)
   std::map<std::string, long long> rig_ids;    // rig name -> id (rigs repeat across sessions)
-  // Consecutive passes of one session go to the store together (one INSERT for up to
-  // kBatch rows): the statement's fixed cost is most of a row's cost (bench/README.md).
-  constexpr size_t kBatch = 16;
+  // Consecutive passes of one session may go to the store together (one INSERT for up to
+  // kBatch rows, Store::add_passes). Since schema/002 one row per statement is cheaper: a
+  // table with an INSERT trigger makes SQLite stage a multi-row INSERT in a temporary table
+  // first, which costs more than the statement it saves (callgrind, 10^4 rows: 68.6 k
+  // instructions a row with 16, 63.2 k with 1; bench/README.md, "append-only guards").
+  constexpr size_t kBatch = 1;
   std::vector<Pass> pending;
   std::vector<long> pending_lines;
   auto at_line = [&](long line, const Error& e) {
