@@ -1,6 +1,7 @@
 // `scaleproof export --session N [--format json|csv] [-o FILE]`: write a session as a file
 // that `reconcile` and `import` accept (JSON: scaleproof-session/1; CSV: docs/csv.md).
-// Voided passes are written with their reason, so an import restores the correction.
+// Voided passes are written with their reason, and a corrected pass as its first row then one
+// row per correction (CSV only; JSON carries the corrected values), so an import restores both.
 // Exit: 0 written; 66 no such session; 73 the output exists (no overwrite) or cannot be made.
 #include <fcntl.h>
 #include <unistd.h>
@@ -14,7 +15,7 @@
 #include "cli/commands.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
-#include "format/pass_csv.h"
+#include "store/importers.h"
 #include "format/session_json.h"
 
 namespace sp::cli {
@@ -37,17 +38,7 @@ void register_export(CLI::App& app, Context& ctx) {
     if (o->format == "json") {
       text = write_session_json(store->load_session(o->session));
     } else {
-      auto h = store->session_history(o->session);
-      text = pass_csv_header();
-      CsvPassRow row;
-      row.session = h.ref.value_or(fmt::format("session-{}", o->session));
-      row.scale = h.session.scale.id;
-      row.rig = h.rig_name;
-      row.operator_name = h.session.operator_name;
-      for (const Pass& p : h.session.passes) {
-        row.pass = p;
-        write_pass_csv_row(text, row);
-      }
+      text = store::export_pass_csv(store->session_history(o->session));
     }
     txn.commit();
     if (o->out.empty()) {

@@ -117,7 +117,7 @@ void fill_missing(AddOpts& a, const ScaleInfo& scale, WeightUnit unit, bool tty)
 }  // namespace
 
 void register_pass(CLI::App& app, Context& ctx) {
-  auto* pass = app.add_subcommand("pass", "Passes over the scale: add, void");
+  auto* pass = app.add_subcommand("pass", "Passes over the scale: add, void, correct");
   pass->footer("Examples:\n  scaleproof pass add --session 1 --kind unhitched --ticket QX-4101 \\\n      --weighed-at 2026-10-14T09:12:00-06:00 --steer 3480 --drive 2700\n  scaleproof pass void 3 --reason \"drive reading keyed wrong; re-weighed as QX-4392\"");
   pass->require_subcommand(1);
 
@@ -199,6 +199,8 @@ void register_pass(CLI::App& app, Context& ctx) {
     txn.commit();
     if (!ctx.quiet) std::cout << "pass " << v->id << " voided\n";
   });
+
+  register_pass_correct(pass, ctx);  // cmd_pass_correct.cpp
 }
 
 }  // namespace sp::cli

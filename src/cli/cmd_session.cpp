@@ -1,8 +1,10 @@
 // `scaleproof session open|close|list|show`: weigh sessions (a rig on a scale, one sitting).
 // Exit: 0 done; 65 refused (named); 66 no such session, rig or scale; 2 usage.
 #include <iostream>
+#include <vector>
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include "cli/commands.h"
 #include "cli/store_cli.h"
@@ -11,6 +13,21 @@
 namespace sp::cli {
 
 namespace {
+
+// "drive 4760 -> 4780, gross 15500 -> 15520": the values a correction changed.
+std::string changes(const Pass& a, const Pass& b) {
+  std::vector<std::string> out;
+  auto text = [](const std::optional<std::string>& v) { return v.value_or("-"); };
+  if (a.kind != b.kind) out.push_back(fmt::format("kind {} -> {}", to_string(a.kind), to_string(b.kind)));
+  if (a.setting != b.setting) out.push_back(fmt::format("setting {} -> {}", text(a.setting), text(b.setting)));
+  if (a.weighed_at != b.weighed_at) out.push_back(fmt::format("weighed at {} -> {}", a.weighed_at, b.weighed_at));
+  if (a.steer != b.steer) out.push_back(fmt::format("steer {} -> {}", num(a.steer), num(b.steer)));
+  if (a.drive != b.drive) out.push_back(fmt::format("drive {} -> {}", num(a.drive), num(b.drive)));
+  if (a.trailer != b.trailer) out.push_back(fmt::format("trailer {} -> {}", num(a.trailer), num(b.trailer)));
+  if (a.gross != b.gross) out.push_back(fmt::format("gross {} -> {}", num(a.gross), num(b.gross)));
+  if (a.scale_id != b.scale_id) out.push_back(fmt::format("ticket scale {} -> {}", text(a.scale_id), text(b.scale_id)));
+  return fmt::format("{}", fmt::join(out, ", "));
+}
 
 void show_session(const store::SessionHistory& h) {
   const Session& s = h.session;
@@ -30,14 +47,27 @@ void show_session(const store::SessionHistory& h) {
   std::cout << fmt::format("    {:>6}  {:<10} {:<8} {:<10} {:>8} {:>8} {:>8} {:>8}  {}\n", "id",
                            "kind", "setting", "ticket", "steer", "drive", "trailer", "gross",
                            "weighed at");
+  // The passes as they read now (the latest correction of each), then what was corrected.
+  auto corrected = [&h](long long id) {
+    for (const auto& c : h.pass_corrections) {
+      if (c.pass_id == id) return true;
+    }
+    return false;
+  };
   for (const Pass& p : s.passes) {
-    std::cout << fmt::format("    {:>6}  {:<10} {:<8} {:<10} {:>8} {:>8} {:>8} {:>8}  {}{}\n",
+    std::cout << fmt::format("    {:>6}  {:<10} {:<8} {:<10} {:>8} {:>8} {:>8} {:>8}  {}{}{}\n",
                              p.id.value_or(0), to_string(p.kind), p.setting.value_or("-"),
                              p.ticket, num(p.steer), num(p.drive), num(p.trailer), num(p.gross),
-                             p.weighed_at, p.voided ? "  VOIDED" : "");
+                             p.weighed_at, p.voided ? "  VOIDED" : "",
+                             corrected(*p.id) ? "  CORRECTED" : "");
   }
-  if (!h.corrections.empty()) {
+  if (!h.corrections.empty() || !h.pass_corrections.empty()) {
     std::cout << "  corrections:\n";
+    for (const auto& c : h.pass_corrections) {
+      std::cout << fmt::format("    correct pass {} (ticket {}): {}: {} - by {} at {}\n",
+                               c.pass_id, c.ticket, changes(c.was, c.now), c.reason,
+                               c.made_by.value_or("-"), c.made_at);
+    }
     for (const auto& c : h.corrections) {
       std::cout << fmt::format("    {} pass {} (ticket {}): {} - by {} at {}\n", c.action,
                                c.pass_id, c.ticket, c.reason, c.made_by.value_or("-"), c.made_at);

@@ -17,6 +17,7 @@ void register_scale(CLI::App& app, Context& ctx);
 void register_rig(CLI::App& app, Context& ctx);
 void register_session(CLI::App& app, Context& ctx);
 void register_pass(CLI::App& app, Context& ctx);
+void register_pass_correct(CLI::App* pass, Context& ctx);  // `pass correct`, under `pass`
 void register_import(CLI::App& app, Context& ctx);
 void register_export(CLI::App& app, Context& ctx);
 void register_check_store(CLI::App& app, Context& ctx);

@@ -17,19 +17,23 @@ namespace {
 
 enum Col {
   kSession, kScale, kRig, kOperator, kKind, kSetting, kTicket, kWeighedAt, kSteer, kDrive,
-  kTrailer, kGross, kTicketScale, kEnteredBy, kEnteredAt, kVoidReason, kNumCols
+  kTrailer, kGross, kTicketScale, kEnteredBy, kEnteredAt, kVoidReason, kCorrectionReason,
+  kNumCols
 };
 constexpr const char* kNames[kNumCols] = {
     "session", "scale", "rig", "operator", "kind", "setting", "ticket", "weighed_at", "steer",
-    "drive", "trailer", "gross", "ticket_scale", "entered_by", "entered_at", "void_reason"};
+    "drive", "trailer", "gross", "ticket_scale", "entered_by", "entered_at", "void_reason",
+    "correction_reason"};
 constexpr bool kRequired[kNumCols] = {true, false, false, false, true, false, true, true,
-                                      true, true, false, false, false, false, false, false};
+                                      true, true, false, false, false, false, false, false,
+                                      false};
 // How the validator judges each text column (format/validate.h); weights are numbers.
 using validate::Text;
 constexpr Text kText[kNumCols] = {Text::ticket, Text::label,  Text::label,  Text::label,
                                   Text::label,  Text::ticket, Text::ticket, Text::label,
                                   Text::label,  Text::label,  Text::label,  Text::label,
-                                  Text::label,  Text::label,  Text::label,  Text::label};
+                                  Text::label,  Text::label,  Text::label,  Text::label,
+                                  Text::label};
 
 std::string shown(std::string_view v) {
   return validate::quoted(v);
@@ -201,6 +205,7 @@ bool PassCsvReader::next(CsvPassRow& row) {
   row.rig = text(kRig);
   row.operator_name = text(kOperator);
   row.void_reason = text(kVoidReason);
+  row.correction_reason = text(kCorrectionReason);
   Pass& p = row.pass;
   std::string kind = required(kKind);
   auto k = parse_pass_kind(kind);
@@ -296,6 +301,8 @@ void write_pass_csv_row(std::string& out, const CsvPassRow& row) {
   put_opt(out, p.entered_at); out.push_back(',');
   put_opt(out, p.voided ? std::optional<std::string>(p.void_reason.value_or("voided"))
                         : std::nullopt);
+  out.push_back(',');
+  put_opt(out, row.correction_reason);
   out.push_back('\n');
 }
 

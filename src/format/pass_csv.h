@@ -18,7 +18,12 @@
 //   ticket_scale scale id printed on the ticket, when it differs from the session's
 //   entered_by   who keyed the ticket in
 //   entered_at   when it was keyed in (ISO 8601); empty: the import time
-//   void_reason  non-empty: the pass is stored and voided at once with this reason
+//   void_reason  non-empty: the pass is stored and voided at once with this reason (on a
+//                correction row: voided after the correction)
+//   correction_reason  non-empty: the row corrects the pass with the same ticket in the same
+//                session (stored earlier, in the store or the file): its kind, setting,
+//                weighed_at, readings, gross and ticket_scale are the pass's complete
+//                corrected values; entered_by / entered_at say who corrected it and when
 // Unknown or repeated column names are refused. Empty optional fields mean "not given".
 // Text cells are judged by validate::text_fault (format/validate.h); a text cell starting with
 // a formula character is written "'=..." and read back as stored (docs/csv.md). Weights are
@@ -39,7 +44,7 @@ namespace sp {
 struct CsvPassRow {
   long line = 0;  // line on which the record starts (header = 1)
   std::string session;
-  std::optional<std::string> scale, rig, operator_name, void_reason;
+  std::optional<std::string> scale, rig, operator_name, void_reason, correction_reason;
   Pass pass;
 };
 

@@ -58,7 +58,7 @@ constexpr ColType R = ColType::real;
 constexpr ColType T = ColType::text;
 }  // namespace
 
-// Must match schema/001_init.sql column for column (tested by store_chain_test).
+// Must match schema/001_init.sql and 002 column for column (tested by store_chain_test).
 const std::vector<TableDesc>& chained_tables() {
   static const std::vector<TableDesc> tables = {
       {"scales", false, nullptr,
@@ -93,6 +93,11 @@ const std::vector<TableDesc>& chained_tables() {
       {"issued_reports", false, nullptr,
        {{"session_id", I}, {"report_id", T}, {"pdf_sha256", T}, {"key_fingerprint", T},
         {"signed_by", T}, {"issued_at", T}}},
+      // schema/002_pass_corrections.sql
+      {"pass_corrections", false, nullptr,
+       {{"pass_id", I}, {"kind", T}, {"setting", T}, {"weighed_at", T}, {"steer", R},
+        {"drive", R}, {"trailer", R}, {"gross", R}, {"scale_code", T}, {"reason", T},
+        {"made_by", T}, {"made_at", T}}},
   };
   return tables;
 }

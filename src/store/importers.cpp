@@ -28,7 +28,7 @@ class CsvLineNames final : public validate::FieldNames {
 
 ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& source,
                             const std::optional<std::string>& by,
-                            const std::function<void(std::uint64_t)>& progress) {
+                            const std::function<void(long long, std::uint64_t)>& progress) {
   PassCsvReader reader(in, source);
   ImportStats stats;
   CsvPassRow row;
@@ -38,9 +38,12 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
   const CsvLineNames names(source, row.line);
   std::map<std::string, std::pair<long long, WeightUnit>> scale_ids;  // code -> id, unit
   std::map<std::string, long long> rig_ids;    // rig name -> id (rigs repeat across sessions)
-  // Consecutive passes of one session go to the store together (one INSERT for up to
-  // kBatch rows): the statement's fixed cost is most of a row's cost (bench/README.md).
-  constexpr size_t kBatch = 16;
+  // Consecutive passes of one session may go to the store together (one INSERT for up to
+  // kBatch rows, Store::add_passes). Since schema/002 one row per statement is cheaper: a
+  // table with an INSERT trigger makes SQLite stage a multi-row INSERT in a temporary table
+  // first, which costs more than the statement it saves (callgrind, 10^4 rows: 68.6 k
+  // instructions a row with 16, 63.2 k with 1; bench/README.md, "append-only guards").
+  constexpr size_t kBatch = 1;
   std::vector<Pass> pending;
   std::vector<long> pending_lines;
   auto at_line = [&](long line, const Error& e) {
@@ -67,7 +70,7 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     }
     long long before = stats.passes;
     stats.passes += static_cast<long long>(ids.size());
-    if (progress && before / 4096 != stats.passes / 4096) progress(reader.bytes_read());
+    if (progress && before / 4096 != stats.passes / 4096) progress(stats.passes, reader.bytes_read());
     pending.clear();
     pending_lines.clear();
     return ids.back();
@@ -126,6 +129,29 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     // The row's own checks, named by line and column (the store checks again, by ticket).
     validate::pass(row.pass, unit, names);
     if (!row.pass.entered_by) row.pass.entered_by = by;
+    if (row.correction_reason) {
+      // A correction row supersedes the pass of its ticket, stored before it: in the store
+      // already, or earlier in this file (hence the flush).
+      flush();
+      try {
+        auto pass_id = store.find_pass(session_id, row.pass.ticket);
+        if (!pass_id) {
+          throw data_error(fmt::format("correction_reason: ticket {} has no pass in session {} "
+                                       "to correct (a correction row comes after its pass)",
+                                       row.pass.ticket, row.session));
+        }
+        store.correct_pass(*pass_id, session_id, row.pass, *row.correction_reason,
+                           row.pass.entered_by, row.pass.entered_at.value_or(""));
+        ++stats.corrected;
+        if (row.void_reason) {
+          store.void_pass(*pass_id, *row.void_reason, row.pass.entered_by, "");
+          ++stats.voided;
+        }
+      } catch (const Error& e) {
+        throw at_line(row.line, e);
+      }
+      continue;
+    }
     pending.push_back(row.pass);
     pending_lines.push_back(row.line);
     if (row.void_reason) {
@@ -141,7 +167,7 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     }
   }
   flush();
-  if (progress) progress(reader.bytes_read());
+  if (progress) progress(stats.passes, reader.bytes_read());
   if (stats.passes == 0) throw data_error(source + ": no passes (only a header)");
   return stats;
 }
@@ -247,6 +273,32 @@ long long import_session(Store& store, const Session& session, const std::string
   } catch (const Error& e) {
     throw e.within(source);
   }
+}
+
+std::string export_pass_csv(const SessionHistory& h) {
+  std::string text = pass_csv_header();
+  CsvPassRow row;
+  row.session = h.ref.value_or(fmt::format("session-{}", h.session.session_id.value_or(0)));
+  row.scale = h.session.scale.id;
+  row.rig = h.rig_name;
+  row.operator_name = h.session.operator_name;
+  for (const Pass& p : h.session.passes) {
+    std::vector<const PassCorrection*> mine;
+    for (const auto& c : h.pass_corrections) {
+      if (c.pass_id == p.id) mine.push_back(&c);
+    }
+    row.correction_reason.reset();
+    row.pass = mine.empty() ? p : mine.front()->was;
+    write_pass_csv_row(text, row);
+    for (const auto* c : mine) {
+      row.pass = c->now;
+      row.pass.voided = c == mine.back() && p.voided;
+      row.pass.void_reason = row.pass.voided ? p.void_reason : std::nullopt;
+      row.correction_reason = c->reason;
+      write_pass_csv_row(text, row);
+    }
+  }
+  return text;
 }
 
 }  // namespace sp::store

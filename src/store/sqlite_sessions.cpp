@@ -136,9 +136,7 @@ static Session build_session(SqliteStore& store, const Stmt& q, const RigRecord&
   return s;
 }
 
-// The pass whose columns start at `c` in q: p.id, p.kind, p.setting, p.ticket, p.weighed_at,
-// p.steer, p.drive, p.trailer, p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason.
-static Pass read_pass(const Stmt& q, int c) {
+Pass read_pass(const Stmt& q, int c, bool corrected) {
   Pass x;
   x.id = q.i64(c);
   x.kind = parse_pass_kind(q.text_view(c + 1)).value_or(PassKind::unhitched);
@@ -154,6 +152,16 @@ static Pass read_pass(const Stmt& q, int c) {
   x.entered_at = q.opt_text(c + 11);
   x.void_reason = q.opt_text(c + 12);
   x.voided = x.void_reason.has_value();
+  if (corrected && !q.is_null(c + 13)) {
+    x.kind = parse_pass_kind(q.text_view(c + 14)).value_or(PassKind::unhitched);
+    x.setting = q.opt_text(c + 15);
+    x.weighed_at = q.text(c + 16);
+    x.steer = q.f64(c + 17);
+    x.drive = q.f64(c + 18);
+    x.trailer = q.opt_f64(c + 19);
+    x.gross = q.opt_f64(c + 20);
+    x.scale_id = q.opt_text(c + 21);
+  }
   return x;
 }
 
@@ -173,13 +181,10 @@ Session SqliteStore::load_session(long long session_id) {
   }
   Session s = build_session(*this, q, *rig, *scale);
   q.reset();
-  Stmt& p = stmt(
-      "SELECT p.id, p.kind, p.setting, p.ticket, p.weighed_at, p.steer, p.drive, p.trailer, "
-      "p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason "
-      "FROM passes p LEFT JOIN corrections c ON c.pass_id = p.id AND c.action = 'void' "
-      "WHERE p.session_id = ? ORDER BY p.id");
+  Stmt& p = stmt(fmt::format("SELECT {}{} FROM passes p{}{} WHERE p.session_id = ? ORDER BY p.id",
+                             kPassCols, kCorrectionCols, kVoidJoin, kCorrectionJoin));
   p.bind(1, session_id);
-  while (p.step("reading passes")) s.passes.push_back(read_pass(p, 0));
+  while (p.step("reading passes")) s.passes.push_back(read_pass(p, 0, true));
   p.reset();
   return s;
 }
@@ -189,14 +194,14 @@ void SqliteStore::for_each_session(const std::function<void(const Session&)>& fn
   // sessions by rowid; no sorter): memory holds one session, and no per-session query is
   // prepared. A session's passes come in index (ticket) order and are put in id order here:
   // a handful of rows, cheaper than SQLite's per-session sorter.
-  Stmt& q = stmt(
+  // The join with the latest correction costs an index step a pass; a store without
+  // corrections (the common case) is read without it.
+  const bool corrected = any_pass_corrections();
+  Stmt& q = stmt(fmt::format(
       "SELECT s.id, s.ref, s.rig_id, s.scale_id, s.station, s.operator, s.owner, s.notes, "
-      "s.length_uncertainty, s.opened_by, s.opened_at, "
-      "p.id, p.kind, p.setting, p.ticket, p.weighed_at, p.steer, p.drive, p.trailer, "
-      "p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason "
-      "FROM sessions s LEFT JOIN passes p ON p.session_id = s.id "
-      "LEFT JOIN corrections c ON c.pass_id = p.id AND c.action = 'void' "
-      "ORDER BY s.id");
+      "s.length_uncertainty, s.opened_by, s.opened_at, {}{} "
+      "FROM sessions s LEFT JOIN passes p ON p.session_id = s.id{}{} ORDER BY s.id",
+      kPassCols, corrected ? kCorrectionCols : "", kVoidJoin, corrected ? kCorrectionJoin : ""));
   constexpr int kPassCol = 11;
   auto emit = [&fn](Session& s) {
     std::sort(s.passes.begin(), s.passes.end(),
@@ -218,7 +223,7 @@ void SqliteStore::for_each_session(const std::function<void(const Session&)>& fn
         s = build_session(*this, q, *rig, *scale);
         have = true;
       }
-      if (!q.is_null(kPassCol)) s.passes.push_back(read_pass(q, kPassCol));
+      if (!q.is_null(kPassCol)) s.passes.push_back(read_pass(q, kPassCol, corrected));
     }
     if (have) emit(s);
   } catch (...) {
@@ -255,6 +260,7 @@ SessionHistory SqliteStore::session_history(long long session_id) {
   c.reset();
   h.inspections = inspections(scale_id);
   h.reports = list_reports(session_id);
+  read_pass_corrections(session_id, h);
   return h;
 }
 

@@ -191,6 +191,10 @@ void SqliteStore::migrate(bool create) {
   // survive a power cut, at the cost of one fsync per command.
   if (db_.path() != ":memory:") db_.exec("PRAGMA journal_mode = WAL", "switching to WAL");
   db_.exec("BEGIN IMMEDIATE", "starting the migration");
+  // A migration may rewrite a table's SQL text to an equivalent form (002 does, for a CHECK),
+  // which needs writable_schema, which SQLITE_DBCONFIG_DEFENSIVE refuses: defensive mode is
+  // lifted for the migrations' own SQL only, inside the transaction, and restored after.
+  sqlite3_db_config(db_.handle(), SQLITE_DBCONFIG_DEFENSIVE, 0, nullptr);
   try {
     // Re-read under the lock: another process may have migrated meanwhile.
     version = schema_version();
@@ -203,8 +207,10 @@ void SqliteStore::migrate(bool create) {
     db_.exec("COMMIT", "committing the migration");
   } catch (...) {
     sqlite3_exec(db_.handle(), "ROLLBACK", nullptr, nullptr, nullptr);
+    sqlite3_db_config(db_.handle(), SQLITE_DBCONFIG_DEFENSIVE, 1, nullptr);
     throw;
   }
+  sqlite3_db_config(db_.handle(), SQLITE_DBCONFIG_DEFENSIVE, 1, nullptr);
 }
 
 void SqliteStore::clear_caches() {

@@ -1,6 +1,7 @@
 // The SQLite implementation of sp::store::Store (internal to src/store).
 // Split over sqlite_store.cpp (open, migrations, transactions, appends, scales, rigs),
-// sqlite_sessions.cpp (sessions, passes, corrections, reports) and sqlite_check.cpp (chain).
+// sqlite_sessions.cpp (sessions, passes, corrections, reports), sqlite_corrections.cpp (pass
+// corrections) and sqlite_check.cpp (chain).
 #pragma once
 #include <map>
 #include <memory>
@@ -69,6 +70,26 @@ struct SessionCtx {
   bool closed = false;
 };
 
+// A pass's columns (read_pass), its void and its latest correction (schema/002). The latest
+// correction is one index step (pass_corrections_by_pass holds pass_id, id: max() reads the
+// last entry of the pass's range).
+inline constexpr const char* kPassCols =
+    "p.id, p.kind, p.setting, p.ticket, p.weighed_at, p.steer, p.drive, p.trailer, p.gross, "
+    "p.scale_code, p.entered_by, p.entered_at, c.reason";
+inline constexpr const char* kCorrectionCols =
+    ", k.id, k.kind, k.setting, k.weighed_at, k.steer, k.drive, k.trailer, k.gross, "
+    "k.scale_code";
+inline constexpr const char* kVoidJoin =
+    " LEFT JOIN corrections c ON c.pass_id = p.id AND c.action = 'void'";
+inline constexpr const char* kCorrectionJoin =
+    " LEFT JOIN pass_corrections k ON k.id = "
+    "(SELECT max(id) FROM pass_corrections WHERE pass_id = p.id)";
+
+// The pass whose columns start at `c` in q: p.id, p.kind, p.setting, p.ticket, p.weighed_at,
+// p.steer, p.drive, p.trailer, p.gross, p.scale_code, p.entered_by, p.entered_at, c.reason,
+// then, when `corrected`, the kCorrectionCols, whose values replace the pass's when present.
+Pass read_pass(const Stmt& q, int c, bool corrected);  // sqlite_sessions.cpp
+
 class SqliteStore final : public Store {
  public:
   SqliteStore(const std::string& path, const Options& options);
@@ -104,6 +125,11 @@ class SqliteStore final : public Store {
   std::vector<long long> add_passes(long long session_id, const std::vector<Pass>& passes) override;
   long long void_pass(long long pass_id, const std::string& reason,
                       const std::optional<std::string>& by, const std::string& at) override;
+  long long correct_pass(long long pass_id, std::optional<long long> in_session,
+                         const Pass& corrected, const std::string& reason,
+                         const std::optional<std::string>& by, const std::string& at) override;
+  std::optional<long long> find_pass(long long session_id, std::string_view ticket) override;
+  std::optional<long long> pass_session(long long pass_id) override;
 
   long long record_report(const IssuedReport& report) override;
   std::vector<IssuedReport> list_reports(std::optional<long long> session_id) override;
@@ -127,6 +153,8 @@ class SqliteStore final : public Store {
   const SessionCtx& session_ctx(long long session_id);
   RowBuilder& bind_pass(RowBuilder& b, long long session_id, const Pass& pass);
   void clear_caches();
+  void read_pass_corrections(long long session_id, SessionHistory& h);  // sqlite_corrections.cpp
+  bool any_pass_corrections();
   std::optional<ChainCheck> check_chain_halves(const std::function<void(long long)>& progress);
 
   Db db_;

@@ -84,6 +84,19 @@ struct Correction {
   std::string made_at;
 };
 
+// A correction that supersedes a pass and keeps its ticket (schema/002). `now` holds the
+// pass's complete corrected values; `was` what it superseded (the pass as first stored, or
+// the previous correction of the same pass). Both carry the pass's id and ticket.
+struct PassCorrection {
+  long long id = 0;
+  long long pass_id = 0;
+  std::string ticket;
+  Pass was, now;
+  std::string reason;
+  std::optional<std::string> made_by;
+  std::string made_at;
+};
+
 struct IssuedReport {
   long long id = 0;
   long long session_id = 0;
@@ -102,7 +115,8 @@ struct SessionHistory {
   std::string opened_at;
   std::optional<std::string> closed_by, closed_at;
   std::string rig_name;
-  std::vector<Correction> corrections;
+  std::vector<Correction> corrections;          // voids
+  std::vector<PassCorrection> pass_corrections;  // oldest first
   std::vector<Inspection> inspections;  // of the session's scale, oldest first
   std::vector<IssuedReport> reports;
 };
@@ -174,6 +188,21 @@ class Store {
   // Appends a correction that voids a pass (it stays stored and visible).
   virtual long long void_pass(long long pass_id, const std::string& reason,
                               const std::optional<std::string>& by, const std::string& at) = 0;
+  // Appends a correction that supersedes pass `pass_id` (schema/002): `corrected` holds the
+  // pass's complete new values (kind, setting, weighed_at, readings, gross, scale_id); its
+  // ticket must be empty or the pass's own (a correction keeps the ticket); id, voided,
+  // entered_* are ignored. It is checked like a new pass against the session's scale.
+  // A pass may be corrected again: the latest correction is what the engine gets, and every
+  // correction stays on record. Refused (data_error): a voided pass, a pass of a closed
+  // session, a pass not in `in_session` when given, an empty reason, a correction that
+  // changes nothing. no_input: no such pass. Returns the correction's id.
+  virtual long long correct_pass(long long pass_id, std::optional<long long> in_session,
+                                 const Pass& corrected, const std::string& reason,
+                                 const std::optional<std::string>& by, const std::string& at) = 0;
+  // The id of the pass with `ticket` in the session, when there is one.
+  virtual std::optional<long long> find_pass(long long session_id, std::string_view ticket) = 0;
+  // The session pass `pass_id` belongs to, when the pass exists.
+  virtual std::optional<long long> pass_session(long long pass_id) = 0;
 
   virtual long long record_report(const IssuedReport& report) = 0;
   // All reports (session_id = nullopt) or those of one session, in issue order.

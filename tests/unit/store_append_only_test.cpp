@@ -14,6 +14,10 @@ TEST_CASE("every chained table refuses update, delete and replace") {
   ts.store->begin_write();
   ts.store->void_pass(*ts.store->load_session(s).passes[0].id, "keyed twice",
                       std::string("R. Quill"), "");
+  Pass fix = ts.store->load_session(s).passes[1];
+  fix.drive = 4980;
+  ts.store->correct_pass(*fix.id, s, fix, "drive keyed 4960, ticket shows 4980",
+                         std::string("R. Quill"), "");
   Inspection in;
   in.scale_id = 1;
   in.inspected_on = "2026-09-01";
