@@ -48,7 +48,7 @@ expect_in err "pass 8 (ticket A-1002): it is voided (keyed twice); a voided pass
 expect_exit 65 "$SP" pass correct 7 --reason "nothing"
 expect_in err "the correction changes nothing"
 expect_exit 65 "$SP" pass correct 7 --drive 3910 --no-gross --reason x
-expect_in err "drive platform: reading 3910 lb is not a multiple of the scale division 20 lb"
+expect_in err "drive: reading 3910 lb is not a multiple of the scale division 20 lb"
 expect_exit 0 "$SP" session close 2
 expect_exit 65 "$SP" pass correct 11 --drive 3900 --no-gross --reason x
 expect_in err "session 2 is closed"

@@ -150,7 +150,7 @@ TEST_CASE("refused corrections name the pass and store nothing") {
        "the correction changes nothing"},
       {"not a multiple of the division", 7, std::nullopt, [](Pass& p) { p.drive = 3910; }, "x",
        ExitCode::data_error,
-       "correction of pass 7: ticket A-1001, pass unhitched: drive platform: reading 3910 lb is "
+       "correction of pass 7: ticket A-1001, pass unhitched: drive: reading 3910 lb is "
        "not a multiple of the scale division 20 lb"},
       {"gross no longer the sum", 7, std::nullopt,
        [](Pass& p) {
@@ -159,7 +159,7 @@ TEST_CASE("refused corrections name the pass and store nothing") {
        },
        "x", ExitCode::data_error, "printed gross 8500 lb is not the sum"},
       {"unhitched with a trailer reading", 7, std::nullopt, [](Pass& p) { p.trailer = 200; }, "x",
-       ExitCode::data_error, "expected no reading (or 0) on an unhitched pass"},
+       ExitCode::data_error, "expected no trailer reading (or 0) on an unhitched pass"},
       {"a closed session", 11, std::nullopt, drive, "x", ExitCode::data_error,
        "session 2 is closed; its passes can no longer be corrected"},
   };
