@@ -58,7 +58,7 @@ constexpr ColType R = ColType::real;
 constexpr ColType T = ColType::text;
 }  // namespace
 
-// Must match schema/001_init.sql column for column (tested by store_chain_test).
+// Must match schema/*.sql column for column (tested by store_chain_test).
 const std::vector<TableDesc>& chained_tables() {
   static const std::vector<TableDesc> tables = {
       {"scales", false, nullptr,
@@ -93,6 +93,10 @@ const std::vector<TableDesc>& chained_tables() {
       {"issued_reports", false, nullptr,
        {{"session_id", I}, {"report_id", T}, {"pdf_sha256", T}, {"key_fingerprint", T},
         {"signed_by", T}, {"issued_at", T}}},
+      // schema/003_checkpoints.sql
+      {"checkpoints", false, nullptr,
+       {{"rows", I}, {"head", T}, {"public_key", T}, {"key_fingerprint", T}, {"signature", T},
+        {"signed_by", T}, {"signed_at", T}}},
   };
   return tables;
 }
