@@ -235,7 +235,8 @@ std::vector<Anchor> anchors_from_check_json(const std::string& text, const std::
       }
       out.push_back({claim.rows, claim.head, fmt::format("checkpoint {} in {}", n, source)});
     }
-    if (j.at("rows").get<long long>() > 0) {
+    // A failed proof states no head (null): only its signed checkpoints are anchors then.
+    if (j.at("rows").get<long long>() > 0 && j.at("head").is_string()) {
       out.push_back(
           {j.at("rows").get<long long>(), j.at("head").get<std::string>(), "head in " + source});
     }
