@@ -49,6 +49,20 @@ struct VerificationFacts {
   std::vector<std::string> mismatches;  // one line per differing result, when not
 };
 
+// A report's ledger anchor (report/record.h "ledger"): where in the station's ledger it was
+// issued, and, when the insurer supplied a copy of that ledger (audit --ledger), whether it
+// still begins with exactly those rows (audit/ledger_proof.h check_anchor).
+struct AnchorFacts {
+  std::string report_id;
+  bool recorded = false;   // the record names an anchor (false: issued from a session file)
+  long long rows = 0;
+  std::string head;        // hex
+  bool checked = false;    // a store was supplied and compared
+  std::string store;       // its path, for the message
+  bool contained = false;  // ... and it contains the anchor
+  std::string detail;      // why not, in plain words
+};
+
 struct AuditItem {
   std::string source;  // file path, or "<store>#<session id>"
   std::string claim;   // the claim it belongs to: the PATH argument (folder or file) or store
@@ -59,6 +73,7 @@ struct AuditItem {
   std::optional<ReconcileResult> result;
   std::optional<std::string> reconcile_error;
   std::optional<VerificationFacts> verification;  // reports only
+  std::optional<AnchorFacts> anchor;              // reports only
   // The scale's inspection history when known (store); when nullopt the rules fall back to
   // session.scale.last_inspected.
   std::optional<std::vector<Inspection>> inspections;

@@ -10,6 +10,8 @@
 #include "engine/reconcile.h"
 #include "format/session_json.h"
 #include "report/key_files.h"
+#include "report/pdf_extract.h"
+#include "report/record.h"
 #include "report/recompute.h"
 #include "report/report_pdf.h"
 #include "report/signer.h"
@@ -124,6 +126,29 @@ std::optional<AuditItem> load_session_file(const std::string& path, const std::s
   return item;
 }
 
+namespace {
+// The anchor the report's record names (none for a record from a session file or of format 1;
+// a malformed one counts as none: the record form check has judged the record already).
+AnchorFacts recorded_anchor(const std::string& pdf, const std::string& report_id) {
+  AnchorFacts a;
+  a.report_id = report_id;
+  std::optional<std::string> text = report::find_attachment(pdf, report::kRecordAttachment);
+  if (!text || report::json_depth(*text) > 64) return a;
+  nlohmann::json record = nlohmann::json::parse(*text, nullptr, false);
+  if (!record.is_object()) return a;
+  try {
+    if (auto l = report::record_ledger(record)) {
+      a.recorded = true;
+      a.rows = l->rows;
+      a.head = l->head;
+    }
+  } catch (const Error&) {
+    a.recorded = false;
+  }
+  return a;
+}
+}  // namespace
+
 std::optional<AuditItem> load_report(const std::string& path, const std::string& claim,
                                      const std::vector<TrustedKey>& trusted,
                                      const LoadSinks& sinks) {
@@ -193,6 +218,7 @@ std::optional<AuditItem> load_report(const std::string& path, const std::string&
       if (v.mismatches.empty()) v.mismatches.push_back(d);
     }
     item.verification = v;
+    item.anchor = recorded_anchor(pdf, vr.report_id);
   } catch (const Error& e) {
     sinks.unreadable(Unreadable{path, e.what()});
     return std::nullopt;
@@ -304,7 +330,12 @@ AuditReport run_loaded(const std::vector<TrustedKey>& trusted, const AuditOption
   rep.options = options;
   for (const auto& k : trusted) rep.trusted_keys.push_back(k.fingerprint);
   LoadSinks sinks;
-  sinks.item = [&](const AuditItem& item) { auditor.add(item); };
+  sinks.item = [&](const AuditItem& item) {
+    if (!observer.prepare) return auditor.add(item);
+    AuditItem copy = item;
+    observer.prepare(copy);
+    auditor.add(copy);
+  };
   sinks.unreadable = [&](Unreadable u) {
     if (observer.on_unreadable) observer.on_unreadable(u);
     rep.unreadable.push_back(std::move(u));

@@ -73,6 +73,8 @@ void reconcile_item(AuditItem& item);
 // told as each happens (for messages on stderr). The store variant throws as
 // load_store_sessions does.
 struct LoadObserver {
+  // Called on each item before the rules see it (audit --ledger fills AuditItem::anchor).
+  std::function<void(AuditItem&)> prepare;
   std::function<void(const Unreadable&)> on_unreadable;
   std::function<void(const std::string& path, const std::string& why)> on_skipped;
 };

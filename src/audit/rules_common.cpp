@@ -48,6 +48,7 @@ std::vector<Finding> audit_item(const AuditItem& item, const AuditOptions& optio
   std::vector<Finding> out;
   const auto live = detail::live_passes(item.session);
   detail::record_rules(item, options, out);
+  detail::anchor_rules(item, out);
   detail::ticket_rules(item, options, live, out);
   detail::scale_rules(item, options, live, out);
   detail::physics_rules(item, options, live, out);

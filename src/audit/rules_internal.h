@@ -39,6 +39,7 @@ void scale_rules(const AuditItem& item, const AuditOptions& o, const std::vector
                  std::vector<Finding>& out);
 void physics_rules(const AuditItem& item, const AuditOptions& o,
                    const std::vector<TimedPass>& live, std::vector<Finding>& out);
+void anchor_rules(const AuditItem& item, std::vector<Finding>& out);  // rules_anchor.cpp
 void timing_rules(const AuditItem& item, const AuditOptions& o, const std::vector<TimedPass>& live,
                   std::vector<Finding>& out);
 

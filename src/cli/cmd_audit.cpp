@@ -2,11 +2,14 @@
 // Loads reports, session files, folders of them, or store sessions (audit/load.h), applies the
 // audit rules (audit/audit.h) and prints the findings (audit/output.h). Exit 0 when no finding
 // is an error, 1 when any is, 65 when an input could not be read (each is named on stderr).
+#include <unistd.h>
+
 #include <chrono>
 #include <iostream>
 
 #include "audit/audit.h"
 #include "audit/calendar.h"
+#include "audit/ledger_proof.h"
 #include "audit/load.h"
 #include "audit/output.h"
 #include "audit/output_stream.h"
@@ -30,6 +33,26 @@ struct AuditOpts {
   int stale_days = 180;
   bool json = false;
   std::string pdf;
+  std::string ledger;
+};
+
+// audit --ledger STORE: each report's anchor against a copy of the station's ledger. The chain
+// is walked once; each anchor is then one stored-hash lookup (audit/ledger_proof.h).
+struct LedgerCheck {
+  std::string path;
+  std::unique_ptr<store::Store> store;
+  store::ChainCheck chain;
+  void prepare(audit::AuditItem& item) {
+    if (!item.anchor) return;
+    item.anchor->checked = true;
+    item.anchor->store = path;
+    if (!item.anchor->recorded) return;
+    audit::AnchorResult r = audit::check_anchor(
+        *store, audit::Anchor{item.anchor->rows, item.anchor->head, item.anchor->report_id},
+        chain.rows, chain.ok);
+    item.anchor->contained = r.state == audit::AnchorState::holds;
+    item.anchor->detail = r.detail;
+  }
 };
 
 std::string check_date(const std::string& v) {
@@ -82,6 +105,10 @@ void register_audit(CLI::App& app, Context& ctx) {
   sub->add_flag("--json", o->json, "Print the audit as JSON (format scaleproof-audit/1)");
   sub->add_option("--pdf", o->pdf,
                   "Also write an audit summary PDF to this file (not overwritten)");
+  auto* ledger = sub->add_option("--ledger", o->ledger,
+                                 "A copy of the station's store: every report's ledger anchor "
+                                 "must be a prefix of its chain (with PATH...)");
+  ledger->needs(paths);
 
   sub->callback([o, paths, session, all, &ctx] {
     if (!*paths && !*session && !*all) {
@@ -129,6 +156,18 @@ void register_audit(CLI::App& app, Context& ctx) {
       return;
     }
     audit::AuditReport rep;
+    LedgerCheck lc;
+    std::unique_ptr<store::Txn> ledger_txn;
+    if (!o->ledger.empty()) {
+      if (::access(o->ledger.c_str(), F_OK) != 0) {
+        throw Error(ExitCode::no_input, "--ledger " + o->ledger + ": no store here");
+      }
+      lc.path = o->ledger;
+      lc.store = store::open_sqlite_store(o->ledger, store::Options{});
+      ledger_txn = std::make_unique<store::Txn>(*lc.store, store::Txn::read);
+      lc.chain = lc.store->check_chain();
+      observer.prepare = [&lc](audit::AuditItem& item) { lc.prepare(item); };
+    }
     if (*paths) {
       rep = audit::audit_paths(o->paths, trusted, opt, observer);
     } else {

@@ -9,8 +9,13 @@
 // A batch is all or nothing: every output name is checked and every session loaded before the
 // first file is written, and on any failure the files already written are removed and nothing
 // is recorded.
-// Same input, same key, same options -> byte-identical files (no clock unless --issued-at); a
-// batch writes the same bytes as one `report --session N` per session.
+// Same input, same key, same options, same store state -> byte-identical files (no clock unless
+// --issued-at); a batch writes the same bytes as one `report --session N` per session, each run
+// on the store as it was before the batch. A report from the store carries the ledger anchor
+// (the chain's rows and head when issued, and its latest signed checkpoint: record.h), so a
+// report issued after another one was recorded differs from it in the anchor.
+#include <unistd.h>
+
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -126,6 +131,19 @@ std::vector<Planned> plan_outputs(const ReportOpts& o) {
   return {{from_file ? 0 : o.sessions[0], o.out, o.out + ".sig"}};
 }
 
+// The store's head and latest checkpoint, read in the transaction that loads the sessions: the
+// reports are issued from exactly this state (their own rows come after it).
+report::LedgerAnchor ledger_anchor(store::Store& db) {
+  const store::ChainHead head = db.chain_head();
+  report::LedgerAnchor a{head.rows, head.head, std::nullopt};
+  if (auto c = db.latest_checkpoint()) {
+    a.checkpoint = report::CheckpointRef{c->seq,       c->rows,           c->head,
+                                         c->signed_at, c->signed_by,      c->key_fingerprint,
+                                         c->public_key, c->signature};
+  }
+  return a;
+}
+
 }  // namespace
 
 void register_report(CLI::App& app, Context& ctx) {
@@ -160,7 +178,7 @@ void register_report(CLI::App& app, Context& ctx) {
     const std::vector<Planned> plan = plan_outputs(*o);
     for (const Planned& p : plan) refuse_existing(p);
     auto signer = report::signer_from_pem(report::read_file_bytes(o->key), o->key);
-    const report::IssueOptions opt = issue_options(*o);
+    report::IssueOptions opt = issue_options(*o);
 
     // Every session is read (and so known to exist) before anything is written.
     std::vector<Session> sessions;
@@ -174,6 +192,7 @@ void register_report(CLI::App& app, Context& ctx) {
       db = store::open_sqlite_store(resolve_db_path(ctx), store::Options{});
       store::Txn txn(*db, store::Txn::read);
       for (const Planned& p : plan) sessions.push_back(db->load_session(p.session));
+      opt.ledger = ledger_anchor(*db);
       txn.commit();
     }
 

@@ -9,7 +9,7 @@ IssuedReport issue_report(const Session& session, const ReconcileResult& result,
                           const nlohmann::json& session_json, const nlohmann::json& result_json,
                           const Signer& signer, const IssueOptions& options) {
   RecordMeta meta{options.issued_at, options.signed_by, options.paper, options.software,
-                  signer.public_key()};
+                  signer.public_key(), options.ledger};
   nlohmann::json record = build_record(session_json, result_json, meta);
   IssuedReport out;
   out.id = record["report"]["id"].get<std::string>();

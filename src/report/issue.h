@@ -13,6 +13,7 @@
 
 #include "core/model.h"
 #include "engine/result.h"
+#include "report/record.h"
 #include "report/signer.h"
 
 namespace sp::report {
@@ -23,6 +24,7 @@ struct IssueOptions {
   std::string paper = "a4";
   std::string software;                  // "scaleproof X.Y.Z"
   std::string font_dir = "/usr/share/fonts/truetype/dejavu";
+  std::optional<LedgerAnchor> ledger;    // the store's head when issued; none from a file
 };
 
 struct IssuedReport {

@@ -106,10 +106,52 @@ nlohmann::json build_record(const nlohmann::json& session, const nlohmann::json&
       {"public_key", to_hex(meta.public_key)},
       {"key_fingerprint", fingerprint(meta.public_key)},
   };
-  nlohmann::json record = {
-      {"format", kRecordFormat}, {"report", report}, {"session", session}, {"results", results}};
+  nlohmann::json ledger = nullptr;
+  if (meta.ledger) {
+    ledger = {{"rows", meta.ledger->rows}, {"head", meta.ledger->head}, {"checkpoint", nullptr}};
+    if (const auto& c = meta.ledger->checkpoint) {
+      ledger["checkpoint"] = {
+          {"position", c->position},
+          {"rows", c->rows},
+          {"head", c->head},
+          {"signed_at", c->signed_at},
+          {"signed_by", c->signed_by ? nlohmann::json(*c->signed_by) : nlohmann::json(nullptr)},
+          {"key_fingerprint", c->key_fingerprint},
+          {"public_key", c->public_key},
+          {"signature", c->signature}};
+    }
+  }
+  nlohmann::json record = {{"format", kRecordFormat}, {"report", report}, {"session", session},
+                           {"results", results},      {"ledger", ledger}};
   record["report"]["id"] = report_id(record);
   return record;
+}
+
+std::optional<LedgerAnchor> record_ledger(const nlohmann::json& record) {
+  auto it = record.find("ledger");
+  if (it == record.end() || it->is_null()) return std::nullopt;
+  try {
+    LedgerAnchor a;
+    a.rows = it->at("rows").get<long long>();
+    a.head = it->at("head").get<std::string>();
+    const nlohmann::json& c = it->at("checkpoint");
+    if (!c.is_null()) {
+      CheckpointRef r;
+      r.position = c.at("position").get<long long>();
+      r.rows = c.at("rows").get<long long>();
+      r.head = c.at("head").get<std::string>();
+      r.signed_at = c.at("signed_at").get<std::string>();
+      if (!c.at("signed_by").is_null()) r.signed_by = c.at("signed_by").get<std::string>();
+      r.key_fingerprint = c.at("key_fingerprint").get<std::string>();
+      r.public_key = c.at("public_key").get<std::string>();
+      r.signature = c.at("signature").get<std::string>();
+      a.checkpoint = r;
+    }
+    return a;
+  } catch (const nlohmann::json::exception& e) {
+    throw data_error(std::string("weigh record: $.ledger: expected {rows, head, checkpoint}: ") +
+                     e.what());
+  }
 }
 
 std::vector<std::string> compare_results(const nlohmann::json& stated,

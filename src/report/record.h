@@ -2,12 +2,19 @@
 //
 // A record is one JSON object:
 //   {
-//     "format":  "scaleproof-record/1",
+//     "format":  "scaleproof-record/2",
 //     "report":  {"id", "issued_at" (ISO 8601 or null), "signed_by" (or null), "paper",
 //                 "software", "public_key" (raw Ed25519, hex), "key_fingerprint"},
 //     "session": the session's inputs, exactly the session-file object (format/session_json.h),
 //     "results": the engine's results, exactly the `reconcile --json` object (format/result_json.h)
+//     "ledger":  the ledger anchor when issued from the store, else null (issued from a session
+//                file): {"rows": chain rows when issued, "head": hex SHA-256 of the last of them,
+//                "checkpoint": the store's latest signed checkpoint then, or null:
+//                {"position", "rows", "head", "signed_at", "signed_by", "key_fingerprint",
+//                 "public_key", "signature"} (report/checkpoint.h signs rows, head, signed_at,
+//                 signed_by)}
 //   }
+// Format 1 records (before the ledger anchor) have no "ledger" key; they still verify.
 // Canonical form (what is signed; see reports/VERIFY.md):
 //   - UTF-8, no byte-order mark, no whitespace outside strings, no trailing newline;
 //   - object keys sorted by their UTF-8 bytes, at every level; array order kept;
@@ -25,7 +32,31 @@
 
 namespace sp::report {
 
-inline constexpr const char* kRecordFormat = "scaleproof-record/1";
+inline constexpr const char* kRecordFormat = "scaleproof-record/2";
+inline constexpr const char* kRecordFormatV1 = "scaleproof-record/1";  // no ledger anchor
+
+// The store's latest signed checkpoint when a report was issued (store/store.h Checkpoint).
+struct CheckpointRef {
+  long long position = 0;
+  long long rows = 0;
+  std::string head;
+  std::string signed_at;
+  std::optional<std::string> signed_by;
+  std::string key_fingerprint;
+  std::string public_key;  // hex
+  std::string signature;   // hex
+};
+
+// Where in the ledger a report was issued: chain rows 1..rows, head = hash of row `rows`.
+struct LedgerAnchor {
+  long long rows = 0;
+  std::string head;
+  std::optional<CheckpointRef> checkpoint;
+};
+
+// The "ledger" value of a record: the anchor, or nullopt when the record has none (null, or a
+// format 1 record). Throws data_error when "ledger" is there but malformed.
+std::optional<LedgerAnchor> record_ledger(const nlohmann::json& record);
 
 struct RecordMeta {
   std::optional<std::string> issued_at;  // as given with --issued-at; no clock otherwise
@@ -33,6 +64,7 @@ struct RecordMeta {
   std::string paper = "a4";
   std::string software;                  // "scaleproof 0.1.0"
   std::string public_key;                // raw 32 bytes
+  std::optional<LedgerAnchor> ledger;    // nullopt: issued from a session file, no anchor
 };
 
 // Canonical text of any JSON value (rules above). Throws data_error on NaN/inf.

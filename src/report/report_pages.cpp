@@ -5,6 +5,7 @@
 #include "report/charts.h"
 #include "report/layout.h"
 #include "report/pdf_doc.h"
+#include "report/record.h"
 #include "report/report_pdf.h"
 #include "report/signer.h"
 
@@ -232,6 +233,41 @@ void signature(Ctx& c, const std::string& record_text) {
   c.flow.paragraph(c.t.get("signature.how"));
 }
 
+// Hex in groups of 8 so a 64-digit head wraps and reads aloud (check-store ignores the spaces).
+std::string grouped(const std::string& hex) {
+  std::string out;
+  for (size_t i = 0; i < hex.size(); i += 8) {
+    if (!out.empty()) out += ' ';
+    out += hex.substr(i, 8);
+  }
+  return out;
+}
+
+// The record's ledger anchor and latest checkpoint (record.h), under the signature block.
+void ledger_anchor(Ctx& c, const nlohmann::json& record) {
+  const std::optional<LedgerAnchor> a = record_ledger(record);
+  if (!a) {
+    c.flow.fields({{c.t.get("ledger.anchor"), c.t.get("ledger.no_anchor")}});
+    return;
+  }
+  std::vector<std::pair<std::string, std::string>> rows = {
+      {c.t.get("ledger.anchor"), fill(c.t.get("ledger.anchor_value"),
+                                      {{"rows", std::to_string(a->rows)}, {"head", grouped(a->head)}})}};
+  if (a->checkpoint) {
+    rows.push_back({c.t.get("ledger.checkpoint"),
+                    fill(c.t.get("ledger.checkpoint_value"),
+                         {{"rows", std::to_string(a->checkpoint->rows)},
+                          {"head", grouped(a->checkpoint->head)},
+                          {"at", a->checkpoint->signed_at},
+                          {"key", a->checkpoint->key_fingerprint}})});
+  } else {
+    rows.push_back({c.t.get("ledger.checkpoint"), c.t.get("ledger.no_checkpoint")});
+  }
+  c.flow.fields(rows);
+  c.flow.paragraph(fill(c.t.get("ledger.how"), {{"rows", std::to_string(a->rows)},
+                                                {"head_plain", a->head}}));
+}
+
 }  // namespace
 
 int weight_decimals(const Session& s) { return s.scale.division >= 1 ? 0 : 1; }
@@ -260,6 +296,7 @@ std::string render_report_pdf(const RenderInput& in) {
   recommendation(c);
   cautions(c);
   signature(c, in.record_text);
+  ledger_anchor(c, *in.record);
 
   DocInfo info;
   info.title = t.get("title") + " " + id;

@@ -118,11 +118,12 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
   } catch (const Error&) {
     canonical = false;  // NaN-like or invalid UTF-8 content: not canonical
   }
-  bool known_format = record["format"] == kRecordFormat;
+  // Format 1 (before the ledger anchor) still verifies: signed records are never re-issued.
+  bool known_format = record["format"] == kRecordFormat || record["format"] == kRecordFormatV1;
   out.checks.push_back(check("record form", canonical && known_format,
                              !known_format ? "format " + record["format"].get<std::string>() +
                                                  " is not " + kRecordFormat
-                             : canonical   ? std::string(kRecordFormat) + ", canonical"
+                             : canonical   ? record["format"].get<std::string>() + ", canonical"
                                            : "the record is not in canonical form"));
 
   if (options.station_key) {

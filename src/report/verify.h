@@ -6,7 +6,8 @@
 //                        embedded weigh-record.json, by the station key when one is given,
 //                        else by the key the record names (which proves only that the record
 //                        is unaltered since it was signed by whoever holds that key);
-//   "record form"        the record is in canonical form with format "scaleproof-record/1";
+//   "record form"        the record is in canonical form with format "scaleproof-record/2"
+//                        (or /1, the format before the ledger anchor);
 //   "station key"        the record names the given station key (skipped without one);
 //   "results"            results recomputed from the record's session equal the record's
 //                        results (record.h compare_results; skipped without a recompute);

@@ -58,7 +58,7 @@ constexpr ColType R = ColType::real;
 constexpr ColType T = ColType::text;
 }  // namespace
 
-// Must match schema/001_init.sql and 002 column for column (tested by store_chain_test).
+// Must match schema/*.sql column for column (tested by store_chain_test).
 const std::vector<TableDesc>& chained_tables() {
   static const std::vector<TableDesc> tables = {
       {"scales", false, nullptr,
@@ -98,6 +98,10 @@ const std::vector<TableDesc>& chained_tables() {
        {{"pass_id", I}, {"kind", T}, {"setting", T}, {"weighed_at", T}, {"steer", R},
         {"drive", R}, {"trailer", R}, {"gross", R}, {"scale_code", T}, {"reason", T},
         {"made_by", T}, {"made_at", T}}},
+      // schema/003_checkpoints.sql
+      {"checkpoints", false, nullptr,
+       {{"rows", I}, {"head", T}, {"public_key", T}, {"key_fingerprint", T}, {"signature", T},
+        {"signed_by", T}, {"signed_at", T}}},
   };
   return tables;
 }

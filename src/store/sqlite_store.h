@@ -1,7 +1,8 @@
 // The SQLite implementation of sp::store::Store (internal to src/store).
 // Split over sqlite_store.cpp (open, migrations, transactions, appends, scales, rigs),
 // sqlite_sessions.cpp (sessions, passes, corrections, reports), sqlite_corrections.cpp (pass
-// corrections) and sqlite_check.cpp (chain).
+// corrections), sqlite_check.cpp (chain) and sqlite_proof.cpp (chain head, checkpoints, schema
+// check).
 #pragma once
 #include <map>
 #include <memory>
@@ -138,6 +139,13 @@ class SqliteStore final : public Store {
   std::string head_hash() override;
   long long row_count() override;
   int schema_version() override;
+
+  ChainHead chain_head() override;  // sqlite_proof.cpp
+  std::optional<std::string> stored_hash_at(long long seq) override;
+  long long add_checkpoint(const Checkpoint& c) override;
+  std::vector<Checkpoint> list_checkpoints() override;
+  std::optional<Checkpoint> latest_checkpoint() override;
+  std::vector<SchemaDifference> check_schema() override;
 
  private:
   friend class RowBuilder;

@@ -121,6 +121,35 @@ struct SessionHistory {
   std::vector<IssuedReport> reports;
 };
 
+// A signed checkpoint (schema/003_checkpoints.sql): the chain as it stood just before it,
+// signed by the station key over the message of report/checkpoint.h.
+struct Checkpoint {
+  long long id = 0;
+  long long seq = 0;             // its own chain position (rows + 1: it follows what it signs)
+  long long rows = 0;            // it covers chain positions 1..rows
+  std::string head;              // hex SHA-256 of row `rows`
+  std::string public_key;        // raw Ed25519 key, 64 hex digits
+  std::string key_fingerprint;   // report/signer.h fingerprint()
+  std::string signature;         // 64-byte Ed25519 signature, 128 hex digits
+  std::optional<std::string> signed_by;
+  std::string signed_at;         // ISO 8601, as signed
+};
+
+// The chain's extent as this connection sees it: positions 1..rows, `head` the hex hash of
+// row `rows` ("" when rows is 0). Read from the top of each table (an index lookup each).
+struct ChainHead {
+  long long rows = 0;
+  std::string head;
+};
+
+// One way the store's schema (sqlite_schema: tables, indexes, triggers, views) differs from
+// what its migrations 1..PRAGMA user_version make.
+struct SchemaDifference {
+  std::string type;     // "table", "index", "trigger", "view", or "pragma"
+  std::string name;
+  std::string problem;  // plain words: "is missing", "was not made by the migrations", ...
+};
+
 // Result of walking the chain. When !ok, table/id/ticket/seq name the first bad row.
 struct ChainCheck {
   bool ok = true;
@@ -214,6 +243,22 @@ class Store {
   virtual std::string head_hash() = 0;
   virtual long long row_count() = 0;
   virtual int schema_version() = 0;
+
+  // Anchors and checkpoints (sqlite_proof.cpp).
+  virtual ChainHead chain_head() = 0;
+  // The stored hash of chain position `seq` in hex; nullopt when no row or not 32 bytes.
+  // Proves a prefix only after check_chain() verified positions 1..seq.
+  virtual std::optional<std::string> stored_hash_at(long long seq) = 0;
+  // Appends a signed checkpoint. Precondition: a write transaction; c.rows and c.head are the
+  // current chain head (else data_error: the chain moved since it was signed) and rows > 0.
+  // The signature is not checked here (the store knows no keys). Returns its id.
+  virtual long long add_checkpoint(const Checkpoint& c) = 0;
+  virtual std::vector<Checkpoint> list_checkpoints() = 0;  // in chain order
+  virtual std::optional<Checkpoint> latest_checkpoint() = 0;
+  // Compares sqlite_schema with the schema that migrations 1..schema_version() make on an empty
+  // database (built in memory), object by object, triggers included, and application_id.
+  // Empty: identical. sqlite_stat* tables (made by ANALYZE) are ignored.
+  virtual std::vector<SchemaDifference> check_schema() = 0;
 };
 
 struct Options {

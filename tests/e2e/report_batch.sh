@@ -10,6 +10,9 @@ expect_exit 0 "$SCALEPROOF" import "$WORK/passes.csv"
 expect_exit 0 "$SCALEPROOF" key new --out station
 
 mkdir batch single
+# The single runs each start from the store as it was before the batch: a report records the
+# ledger's head when issued, and each recorded report moves that head.
+sqlite3 "$DB" ".backup '$WORK/before-batch.db'"
 expect_exit 0 "$SCALEPROOF" report --session 1 2 3 --key station.key --out-dir batch --signed-by "Ilse Varga"
 for n in 1 2 3; do
   expect_in out "written to batch/report-$n.pdf (signature batch/report-$n.pdf.sig)"
@@ -17,7 +20,8 @@ done
 [ "$(grep -c '^signed with key ' out)" = 1 ] || fail "expected one key line: $(cat out)"
 cp out batch.out
 for n in 1 2 3; do
-  expect_exit 0 "$SCALEPROOF" report --session "$n" --key station.key --out "single/$n.pdf" --signed-by "Ilse Varga"
+  cp "$WORK/before-batch.db" "$WORK/single-$n.db"
+  expect_exit 0 "$SCALEPROOF" --db "$WORK/single-$n.db" report --session "$n" --key station.key --out "single/$n.pdf" --signed-by "Ilse Varga"
   cmp -s "batch/report-$n.pdf" "single/$n.pdf" || fail "session $n: batch PDF differs from the single run"
   cmp -s "batch/report-$n.pdf.sig" "single/$n.pdf.sig" || fail "session $n: batch signature differs"
   expect_exit 0 "$SCALEPROOF" verify "batch/report-$n.pdf" --pubkey station.pub.pem

@@ -74,7 +74,7 @@ mkdir detached && (cd detached && pdfdetach -saveall ../report.pdf)
 [ -f detached/weigh-record.json ] && [ -f detached/weigh-record.sig ] || fail "pdfdetach found no record"
 openssl pkeyutl -verify -pubin -inkey station.pub.pem -rawin -in detached/weigh-record.json \
     -sigfile detached/weigh-record.sig >ossl.out 2>&1 || { cat ossl.out; fail "openssl recipe (record) failed"; }
-python3 -c 'import json,sys; r=json.load(open(sys.argv[1])); assert r["format"]=="scaleproof-record/1"' \
+python3 -c 'import json,sys; r=json.load(open(sys.argv[1])); assert r["format"]=="scaleproof-record/2"' \
     detached/weigh-record.json || fail "record format"
 
 # Another station's key: verify fails (1) naming the checks; openssl refuses too.

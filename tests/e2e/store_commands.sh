@@ -5,7 +5,7 @@ SP="$SCALEPROOF"
 D="$TEST_DATA/csv"
 
 expect_exit 0 "$SP" init
-expect_in out "schema version 2"
+expect_in out "schema version 3"
 # --db is global: before or after the subcommand.
 expect_exit 0 "$SP" --db "$WORK/other.db" init
 expect_exit 0 "$SP" init --db "$WORK/third.db"

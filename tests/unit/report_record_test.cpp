@@ -47,7 +47,8 @@ TEST_CASE("record carries format, key and a content-derived id") {
   meta.public_key = std::string(32, '\x07');
   json session = {{"ticket", "LF-1"}}, results = {{"tongue_load", {{"value", 1000}}}};
   json a = build_record(session, results, meta);
-  CHECK(a["format"] == "scaleproof-record/1");
+  CHECK(a["format"] == "scaleproof-record/2");
+  CHECK(a["ledger"].is_null());  // no anchor given: issued from a session file
   CHECK(a["report"]["public_key"] == to_hex(meta.public_key));
   CHECK(a["report"]["key_fingerprint"] == fingerprint(meta.public_key));
   CHECK(a["report"]["issued_at"].is_null());  // no clock unless given
@@ -88,4 +89,28 @@ TEST_CASE("compare_results tolerates last-bit noise and names real differences")
     CHECK(diffs.size() == c.differences);
     if (!diffs.empty()) CHECK(diffs[0].find(c.names) != std::string::npos);
   }
+}
+
+TEST_CASE("the ledger anchor is part of the signed record and reads back") {
+  RecordMeta meta;
+  meta.software = "scaleproof test";
+  meta.public_key = std::string(32, '\x07');
+  json session = {{"ticket", "LF-1"}}, results = {{"tongue_load", {{"value", 1000}}}};
+  const std::string without = build_record(session, results, meta)["report"]["id"];
+  LedgerAnchor a{13, std::string(64, 'b'), std::nullopt};
+  a.checkpoint = CheckpointRef{13, 12, std::string(64, 'c'), "2026-10-14T10:00:00Z",
+                               std::nullopt, "fp", std::string(64, 'd'), std::string(128, 'e')};
+  meta.ledger = a;
+  json r = build_record(session, results, meta);
+  CHECK(r["report"]["id"] != without);  // the anchor is covered by the id and the signature
+  auto back = record_ledger(json::parse(canonical_json(r)));
+  REQUIRE(back.has_value());
+  CHECK(back->rows == 13);
+  CHECK(back->head == a.head);
+  REQUIRE(back->checkpoint.has_value());
+  CHECK(back->checkpoint->rows == 12);
+  CHECK_FALSE(back->checkpoint->signed_by.has_value());
+  // Format 1 records have no "ledger"; a malformed one is a data error.
+  CHECK_FALSE(record_ledger(json{{"format", kRecordFormatV1}}).has_value());
+  CHECK_THROWS_AS(record_ledger(json{{"ledger", {{"rows", "x"}}}}), sp::Error);
 }

@@ -26,6 +26,17 @@ TEST_CASE("every chained table refuses update, delete and replace") {
   ts.store->close_session(s, std::string("R. Quill"), "");
   IssuedReport rep{0, s, "WR-0001", std::string(64, 'a'), "fp:1234", std::string("R. Quill"), ""};
   ts.store->record_report(rep);
+  // A checkpoint row, so the checkpoints table has a row to refuse changing (the store does not
+  // check signatures; an all-zero one does here).
+  Checkpoint cp;
+  const ChainHead head = ts.store->chain_head();
+  cp.rows = head.rows;
+  cp.head = head.head;
+  cp.public_key = std::string(64, '0');
+  cp.key_fingerprint = "fp:1234";
+  cp.signature = std::string(128, '0');
+  cp.signed_at = "2026-10-14T10:00:00Z";
+  ts.store->add_checkpoint(cp);
   ts.store->commit();
   for (const auto& t : chained_tables()) {
     CAPTURE(t.name);

@@ -95,9 +95,9 @@ inline Pass make_pass(PassKind kind, const std::string& ticket, double steer, do
 }
 
 // One scale, one rig, one open session; returns the session id.
-inline long long seed_session(Store& s) {
+inline long long seed_session(Store& s, const ScaleInfo& scale_info = demo_scale()) {
   s.begin_write();
-  long long scale = s.add_scale(demo_scale(), WeightUnit::lb, std::string("R. Quill"), "");
+  long long scale = s.add_scale(scale_info, WeightUnit::lb, std::string("R. Quill"), "");
   long long rig = s.add_rig(demo_rig());
   NewSession ns;
   ns.rig_id = rig;
