@@ -179,6 +179,12 @@ TEST_CASE("after the upgrade the guards refuse what they refused, and passes.kin
   for (const auto& t : chained_tables()) {
     CAPTURE(t.name);
     const std::string name = t.name;
+    // A table the upgrade left empty (checkpoints, schema/003) has no row for a guard to
+    // refuse; store_append_only_test covers its guards on a table with rows.
+    if (one_value(v1.path, "SELECT count(*) FROM " + name) == "0") {
+      CHECK(name == "checkpoints");
+      continue;
+    }
     for (const std::string& sql :
          {"UPDATE " + name + " SET hash = hash", "DELETE FROM " + name,
           "INSERT OR REPLACE INTO " + name + " SELECT * FROM " + name + " LIMIT 1",
