@@ -18,6 +18,19 @@ expect_exit 73 "$SCALEPROOF" key new --out station
 cmp -s station.key before.key || fail "station.key changed"
 expect_in err "already exists"
 
+# A private key that group or others can read is refused (65), naming the mode and the fix, as
+# ssh does; nothing is written. key new writes 0600 even under umask 000.
+for m in 640 644 604 660 666; do
+  chmod "$m" station.key
+  expect_exit 65 "$SCALEPROOF" report "$SESSION" --key station.key --out loose.pdf
+  expect_in err "mode 0$m"
+  expect_in err "chmod 600 station.key"
+  [ ! -e loose.pdf ] || fail "a refused key still wrote a report (mode $m)"
+done
+chmod 600 station.key
+(umask 000 && "$SCALEPROOF" key new --out umask0 >/dev/null) || fail "key new under umask 000"
+[ "$(stat -c %a umask0.key)" = 600 ] || fail "umask 000: key mode $(stat -c %a umask0.key)"
+
 # report: PDF + detached signature; deterministic.
 expect_exit 0 "$SCALEPROOF" report "$SESSION" --key station.key --out report.pdf --signed-by "Marit Oddsdottir"
 [ -f report.pdf.sig ] || fail "no report.pdf.sig"
