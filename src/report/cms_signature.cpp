@@ -107,9 +107,18 @@ X509Ptr station_certificate(const Signer& signer, EVP_PKEY* key, std::int64_t no
       X509_set_issuer_name(x.get(), name) != 1) {
     fail("cannot set the certificate's name");
   }
+  // The SubjectPublicKeyInfo set from the raw key (RFC 8410 §4: id-Ed25519, no parameters):
+  // X509_set_pubkey would start OpenSSL's encoder framework, a tenth of a report's instructions.
+  (void)key;
+  auto* spki_key = static_cast<unsigned char*>(OPENSSL_memdup(pub.data(), pub.size()));
+  if (spki_key == nullptr ||
+      X509_PUBKEY_set0_param(X509_get_X509_PUBKEY(x.get()), OBJ_nid2obj(NID_ED25519), V_ASN1_UNDEF,
+                             nullptr, spki_key, static_cast<int>(pub.size())) != 1) {
+    OPENSSL_free(spki_key);
+    fail("cannot set the certificate's key");
+  }
   if (ASN1_TIME_set(X509_getm_notBefore(x.get()), static_cast<time_t>(not_before)) == nullptr ||
-      ASN1_TIME_set_string(X509_getm_notAfter(x.get()), "99991231235959Z") != 1 ||
-      X509_set_pubkey(x.get(), key) != 1) {
+      ASN1_TIME_set_string(X509_getm_notAfter(x.get()), "99991231235959Z") != 1) {
     fail("cannot set the certificate's validity or key");
   }
   BitsPtr usage(ASN1_BIT_STRING_new());
@@ -125,7 +134,13 @@ X509Ptr station_certificate(const Signer& signer, EVP_PKEY* key, std::int64_t no
   set_ed25519(sig_alg);
   const std::string tbs = der([&](unsigned char** p) { return i2d_re_X509_tbs(x.get(), p); });
   set_signature_bits(sig_bits, signer.sign(tbs));
-  return x;
+  // Read back from its DER: that decodes the key into the certificate's EVP_PKEY, which
+  // CMS_add1_signer compares with the signer's (set0_param alone leaves it empty).
+  const std::string encoded = der([&](unsigned char** p) { return i2d_X509(x.get(), p); });
+  const unsigned char* p = ubytes(encoded);
+  X509Ptr back(d2i_X509(nullptr, &p, static_cast<long>(encoded.size())));
+  if (!back) fail("cannot read back the certificate");
+  return back;
 }
 
 // One TLV of a DER buffer.
