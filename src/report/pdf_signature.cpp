@@ -133,6 +133,7 @@ PdfSignatureCheck check_pdf_signature(std::string_view pdf, const PdfSignatureDi
                             " only, and does not hold even over them (" + cms.problem + ")";
     return out;
   }
+  out.holds_over_range = true;
   if (!out.whole_file) {
     out.problem = "the signature covers bytes 0 to " + std::to_string(out.covered_end) +
                   " only; the " + std::to_string(n - out.covered_end) + " bytes from offset " +

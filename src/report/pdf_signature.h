@@ -51,6 +51,8 @@ struct PdfSignatureDict {
 struct PdfSignatureCheck {
   bool valid = false;       // well formed, the CMS holds, and it covers the whole file
   bool whole_file = false;  // ranges are [0, a) and [b, n) with the gap its own /Contents
+  // The CMS holds over the ranges it names (valid, or bytes were added after covered_end).
+  bool holds_over_range = false;
   std::string problem;      // why not valid, in words (names offsets); empty when valid
   std::string signer_key;   // raw key of the CMS signer, when the CMS parsed
   std::optional<std::int64_t> signing_time;

@@ -152,6 +152,10 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
       record["report"]["id"].is_string()) {
     out.report_id = record["report"]["id"].get<std::string>();
   }
+  if (record.contains("report") && record["report"].is_object() &&
+      record["report"].contains("issued_at") && record["report"]["issued_at"].is_string()) {
+    out.issued_at = record["report"]["issued_at"].get<std::string>();
+  }
 
   // Which key: the station's (given) or the one the record names.
   std::string named;

@@ -47,6 +47,7 @@ struct VerifyResult {
   bool is_report = false;
   std::string not_report_reason;
   std::string report_id;    // when is_report
+  std::optional<std::string> issued_at;  // the record's report.issued_at, when a string
   std::string fingerprint;  // of the key that signed the record
   std::vector<VerifyCheck> checks;
   bool pages_verified = false;               // the in-file or the detached signature holds
