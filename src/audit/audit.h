@@ -40,13 +40,24 @@ struct Inspection {
 
 // What verifying a signed report established (filled by the report verifier's loader).
 struct VerificationFacts {
-  bool record_signature_ok = false;     // the embedded weigh record's signature holds
-  std::string key_fingerprint;          // of the key that signed it (report/signer.h format)
-  bool key_trusted = false;             // that fingerprint is among the insurer's --trust keys
-  bool detached_present = false;        // a "<report>.pdf.sig" lay beside the PDF
-  bool detached_ok = false;             // ... and it verifies the PDF's bytes with that key
-  bool record_matches = true;           // stated results equal the recomputation
-  std::vector<std::string> mismatches;  // one line per differing result, when not
+  bool record_signature_ok = false;    // the embedded weigh record's signature holds
+  std::string key_fingerprint;         // of the key that signed it (report/signer.h format)
+  bool key_trusted = false;            // that fingerprint is among the insurer's --trust keys
+  bool detached_present = false;       // a "<report>.pdf.sig" lay beside the PDF
+  bool detached_ok = false;            // ... and it verifies the PDF's bytes with that key
+  bool in_file_present = false;        // the PDF holds a signature (report/pdf_signature.h)
+  bool in_file_ok = false;             // ... which holds over the whole file, by that key
+  // ... which holds over a range that ends before the end of the file: bytes were appended
+  // (an incremental update) from this offset on; the file has file_size bytes.
+  std::optional<long long> in_file_covered_end;
+  long long file_size = 0;
+  std::string in_file_problem;  // why the in-file signature fails, when it does
+  // The trust list's verdict on the signing key at the report's issue time (report/trust.h),
+  // when the key is in the list: nullopt otherwise.
+  std::optional<bool> key_in_validity;
+  std::string key_validity_detail;
+  bool record_matches = true;          // stated results equal the recomputation
+  std::vector<std::string> mismatches; // one line per differing result, when not
 };
 
 // A report's ledger anchor (report/record.h "ledger"): where in the station's ledger it was
@@ -96,8 +107,9 @@ struct AuditOptions {
   // Station clocks are not synchronised to the second; a ticket up to this far ahead of the
   // audit clock is not yet "future" (common practice: a few minutes of clock drift).
   int future_slack_minutes = 5;
-  // Whether the insurer named any trusted key. Without one every report key is unknown, which is
-  // reported as a warning (origin unproven) instead of an error.
+  // Whether the insurer named any trusted key (a key, a folder of keys or a trust file). Without
+  // one every report key is unknown, which is reported as a warning (origin unproven) instead of an
+  // error.
   bool trust_list_given = false;
 };
 

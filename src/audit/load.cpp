@@ -9,6 +9,7 @@
 #include "core/error.h"
 #include "engine/reconcile.h"
 #include "format/session_json.h"
+#include "report/cms_signature.h"
 #include "report/key_files.h"
 #include "report/pdf_extract.h"
 #include "report/record.h"
@@ -77,27 +78,8 @@ void load_one(const std::string& path, const std::string& claim,
 
 std::vector<TrustedKey> load_trusted_keys(const std::vector<std::string>& paths) {
   std::vector<TrustedKey> out;
-  for (const auto& p : paths) {
-    std::vector<std::string> files;
-    std::error_code ec;
-    if (fs::is_directory(p, ec)) {
-      for (const auto& e : fs::directory_iterator(p)) {
-        if (e.is_regular_file() && lower(e.path().extension().string()) == ".pem") {
-          files.push_back(e.path().string());
-        }
-      }
-      std::sort(files.begin(), files.end());
-      if (files.empty()) {
-        throw Error(ExitCode::no_input, "--trust " + p + ": no .pem public key in this folder");
-      }
-    } else {
-      files.push_back(p);
-    }
-    for (const auto& f : files) {
-      auto v = report::verifier_from_pem(report::read_file_bytes(f), f);
-      out.push_back(TrustedKey{f, report::fingerprint(v->public_key())});
-    }
-  }
+  for (auto& e : report::load_trust(paths).entries)
+    out.push_back(TrustedKey{e.source, e.fingerprint, e});
   return out;
 }
 
@@ -199,6 +181,32 @@ std::optional<AuditItem> load_report(const std::string& path, const std::string&
     v.key_trusted = std::any_of(trusted.begin(), trusted.end(), [&](const TrustedKey& k) {
       return !vr.fingerprint.empty() && k.fingerprint == vr.fingerprint;
     });
+    if (v.key_trusted) {
+      report::TrustList list;
+      for (const auto& k : trusted) list.entries.push_back(k.entry);
+      std::optional<std::string> latest;
+      if (!item.session.passes.empty()) {
+        std::optional<std::int64_t> best;
+        for (const auto& p : item.session.passes) {
+          auto t = report::iso_utc_seconds(p.weighed_at);
+          if (t && (!best || *t > *best)) {
+            best = t;
+            latest = p.weighed_at;
+          }
+        }
+      }
+      report::TrustVerdict tv = report::check_trust(list, vr.fingerprint, vr.issued_at, latest);
+      v.key_in_validity = tv.ok;
+      v.key_validity_detail = tv.detail;
+    }
+    v.file_size = static_cast<long long>(pdf.size());
+    const auto* inf = find_check(vr, "in-file signature");
+    v.in_file_present = inf && inf->status != report::CheckStatus::skipped;
+    v.in_file_ok = inf && inf->status == report::CheckStatus::passed;
+    if (v.in_file_present && !v.in_file_ok) v.in_file_problem = inf->detail;
+    if (vr.in_file && vr.in_file->holds_over_range && !vr.in_file->whole_file) {
+      v.in_file_covered_end = vr.in_file->covered_end;
+    }
     v.detached_present = has_sig;
     const auto* det = find_check(vr, "detached signature");
     v.detached_ok = det && det->status == report::CheckStatus::passed;

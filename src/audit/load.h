@@ -19,17 +19,20 @@
 #include "audit/audit.h"
 #include "audit/output.h"
 #include "audit/output_stream.h"
+#include "report/trust.h"
 #include "store/store.h"
 
 namespace sp::audit {
 
 struct TrustedKey {
-  std::string source;       // the .pub.pem file
+  std::string source;       // the .pub.pem or trust file
   std::string fingerprint;  // report/signer.h fingerprint()
+  report::TrustEntry entry;  // its station and validity (none for a bare key)
 };
 
-// Reads each --trust PATH: a PEM public key, or a folder whose *.pem files are all keys.
-// Throws sp::Error (no_input / data_error) naming the file that is missing or not a key.
+// Reads each --trust PATH: a trust file (report/trust.h), a PEM public key, or a folder whose
+// *.pem files are all keys. Throws sp::Error (no_input / data_error) naming the file that is
+// missing or not a key.
 std::vector<TrustedKey> load_trusted_keys(const std::vector<std::string>& paths);
 
 struct LoadSinks {

@@ -5,8 +5,15 @@
 //   key-untrusted         error    signed by a key that is not among the --trust keys
 //                                  (warning when no trusted key was given at all)
 //   record-mismatch       error    results stated in the record differ from recomputation
-//   file-altered          error    the detached .sig beside the PDF does not verify its bytes
-//   no-detached-signature note     no .sig beside the PDF: only the embedded record is checked
+//   key-outside-validity  error    the trusted key was not valid when the report was issued
+//                                  (before valid_from, after valid_to or revocation;
+//                                  report/trust.h)
+//   signature-incomplete  error    the in-file signature holds only up to an offset: bytes were
+//                                  added after it (an incremental update); the offset is named
+//   file-altered          error    the in-file signature or the detached .sig does not verify
+//                                  the PDF's bytes
+//   pages-unsigned        warning  neither an in-file signature nor a .sig covers the printed
+//                                  pages: only the embedded record is checked
 //   inspection-lapsed     warning  no inspection recorded within N months before the weighing
 //   division-implausible  warning  division outside NIST HB 44 Table 3 limits (Class III L)
 //   class-unknown         note     accuracy class not recognised; Class III L assumed
@@ -50,17 +57,50 @@ void record_rules(const AuditItem& item, const AuditOptions& o, std::vector<Find
     for (const auto& m : v.mismatches) f.values.push_back(text_value("differs", m));
     out.push_back(std::move(f));
   }
-  if (v.detached_present && !v.detached_ok) {
+  if (v.key_trusted && v.key_in_validity && !*v.key_in_validity) {
+    out.push_back(make_finding(
+        "key-outside-validity", Severity::error,
+        "The report was signed by a trusted station key outside the time the trust list allows "
+        "it to sign: " +
+            v.key_validity_detail + ".",
+        "the key's valid_from, valid_to and revoked_at in the trust file (reports/VERIFY.md)"));
+    out.back().values.push_back(text_value("key fingerprint", v.key_fingerprint));
+  }
+  if (v.in_file_covered_end) {
+    // One cause, one finding: the appended bytes also break a detached .sig, said here.
+    const long long extra = v.file_size - *v.in_file_covered_end;
+    Finding f = make_finding(
+        "signature-incomplete", Severity::error,
+        fmt::format(
+            "The signature inside the PDF covers bytes 0 to {} only; the {} bytes from "
+            "offset {} on were added after signing (an incremental update or appended "
+            "data), so what they show is not signed{}.",
+            *v.in_file_covered_end, extra, *v.in_file_covered_end,
+            v.detached_present && !v.detached_ok ? "; the detached .sig fails on them too" : ""),
+        "ISO 32000-1 §12.8.1: /ByteRange must cover the whole file but the signature value");
+    f.values.push_back(number_value("signed up to offset",
+                                    static_cast<double>(*v.in_file_covered_end), "bytes", 0));
+    f.values.push_back(number_value("file size", static_cast<double>(v.file_size), "bytes", 0));
+    out.push_back(std::move(f));
+  } else if ((v.in_file_present && !v.in_file_ok) || (v.detached_present && !v.detached_ok)) {
+    std::string which = v.in_file_present && !v.in_file_ok
+                            ? "the signature inside the PDF (" + v.in_file_problem + ")"
+                            : std::string();
+    if (v.detached_present && !v.detached_ok) {
+      which += (which.empty() ? "" : " and ") + std::string("the detached signature beside it");
+    }
     out.push_back(make_finding(
         "file-altered", Severity::error,
-        "The PDF's bytes do not match the detached signature beside it: the file was changed "
-        "after it was issued (or the .sig belongs to another report).",
-        "Ed25519 signature of the PDF bytes in <report>.pdf.sig"));
-  } else if (!v.detached_present) {
+        "The PDF's bytes do not match " + which +
+            ": the file was changed after it was issued (or the .sig belongs to another report).",
+        "CMS signature in the PDF (RFC 8419) and Ed25519 signature of the PDF bytes in "
+        "<report>.pdf.sig"));
+  } else if (!v.in_file_present && !v.detached_present) {
     out.push_back(make_finding(
-        "no-detached-signature", Severity::note,
-        "No detached signature (.pdf.sig) was supplied with the report; only the embedded weigh "
-        "record's signature was checked, not the PDF's pages.",
+        "pages-unsigned", Severity::warning,
+        "No signature covers the report's printed pages: the PDF holds no signature of its own "
+        "(issued before in-file signatures) and no detached signature (.pdf.sig) came with it; "
+        "only the embedded weigh record's signature was checked, so the pages are not proven.",
         "ask the station for <report>.pdf.sig"));
   }
 }

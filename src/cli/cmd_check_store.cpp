@@ -189,7 +189,7 @@ void register_check_store(CLI::App& app, Context& ctx) {
           report::verifier_from_pem(report::read_file_bytes(f), f)->public_key());
     }
     std::unique_ptr<report::Signer> signer;
-    if (o->sign) signer = report::signer_from_pem(report::read_file_bytes(o->key), o->key);
+    if (o->sign) signer = report::signer_from_pem(report::read_private_key_file(o->key), o->key);
     if (!o->expect_head.empty()) {
       std::cerr << "scaleproof: --expect-head is deprecated: it fails on any honest append; use "
                    "--expect ROWS:HASH (the anchor printed on a report)\n";

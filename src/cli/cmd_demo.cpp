@@ -247,7 +247,8 @@ class Demo {
 
   void make_key() {
     keys_ = report::create_key_files(join(dir_, "keys/station"));
-    signer_ = report::signer_from_pem(report::read_file_bytes(keys_.private_path), keys_.private_path);
+    signer_ = report::signer_from_pem(report::read_private_key_file(keys_.private_path),
+                                      keys_.private_path);
     verifier_ =
         report::verifier_from_pem(report::read_file_bytes(keys_.public_path), keys_.public_path);
     say(fmt::format("3. station key made just now: {} (private, mode 0600) and {}\n"

@@ -177,7 +177,7 @@ void register_report(CLI::App& app, Context& ctx) {
   sub->callback([o, &ctx] {
     const std::vector<Planned> plan = plan_outputs(*o);
     for (const Planned& p : plan) refuse_existing(p);
-    auto signer = report::signer_from_pem(report::read_file_bytes(o->key), o->key);
+    auto signer = report::signer_from_pem(report::read_private_key_file(o->key), o->key);
     report::IssueOptions opt = issue_options(*o);
 
     // Every session is read (and so known to exist) before anything is written.

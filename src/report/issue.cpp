@@ -1,5 +1,7 @@
 #include "report/issue.h"
 
+#include "report/cms_signature.h"
+#include "report/pdf_signature.h"
 #include "report/record.h"
 #include "report/report_pdf.h"
 
@@ -23,7 +25,11 @@ IssuedReport issue_report(const Session& session, const ReconcileResult& result,
   in.record_signature = out.record_signature;
   in.paper = options.paper;
   in.font_dir = options.font_dir;
+  in.reserve_signature = true;
   out.pdf = render_report_pdf(in);
+  std::optional<std::int64_t> signed_at;
+  if (options.issued_at) signed_at = iso_utc_seconds(*options.issued_at);
+  sign_pdf_in_place(out.pdf, signer, signed_at);
   out.pdf_signature = signer.sign(out.pdf);
   out.fingerprint = fingerprint(signer.public_key());
   return out;

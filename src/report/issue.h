@@ -1,9 +1,15 @@
-// Issuing a signed weigh-report: record -> record signature -> PDF -> detached PDF signature.
+// Issuing a signed weigh-report: record -> record signature -> PDF with its in-file signature
+// -> detached PDF signature.
 //
 //   record_text   = canonical_json(build_record(session_to_json, result_to_json, meta))
 //   record_sig    = Ed25519(record_text)            embedded as weigh-record.sig
-//   pdf           = render_report_pdf(..., record_text, record_sig)
+//   pdf           = render_report_pdf(..., record_text, record_sig), with a signature
+//                   placeholder, then sign_pdf_in_place: a CMS SignedData (RFC 8419) over
+//                   every byte but its own value (report/pdf_signature.h); signing time =
+//                   the record's issued_at, none when it has none
 //   pdf_sig       = Ed25519(pdf bytes)              written beside it as report.pdf.sig
+// Both PDF signatures cover the printed pages: the in-file one travels with the file, the
+// detached one keeps the stock `openssl pkeyutl` check and reports from before working.
 // Deterministic: Ed25519 signatures are deterministic (RFC 8032 §5.1.6), so the same session,
 // options and key give byte-identical outputs. Pure apart from reading the font files.
 #pragma once

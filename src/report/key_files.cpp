@@ -5,6 +5,7 @@
 #include <unistd.h>
 
 #include <cerrno>
+#include <cstdio>
 #include <cstring>
 #include <fstream>
 #include <sstream>
@@ -17,14 +18,22 @@ namespace {
 
 std::string errno_text() { return std::strerror(errno); }
 
-// Writes all of `bytes` to a new file (O_EXCL) with `mode`; throws cant_create / io_error.
-void write_new_file(const std::string& path, const std::string& bytes, mode_t mode) {
+// Writes all of `bytes` to a new file (O_EXCL) with `mode` (less the umask, unless `exact`:
+// then exactly `mode`, so a private key is 0600 whatever the umask); throws cant_create / io_error.
+void write_new_file(const std::string& path, const std::string& bytes, mode_t mode,
+                    bool exact = false) {
   int fd = ::open(path.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, mode);
   if (fd < 0) {
     if (errno == EEXIST) {
       throw Error(ExitCode::cant_create, path + ": already exists; refusing to overwrite it");
     }
     throw Error(ExitCode::cant_create, path + ": cannot create: " + errno_text());
+  }
+  if (exact && ::fchmod(fd, mode) != 0) {
+    std::string why = errno_text();
+    ::close(fd);
+    ::unlink(path.c_str());
+    throw Error(ExitCode::cant_create, path + ": cannot set mode: " + why);
   }
   std::size_t done = 0;
   while (done < bytes.size()) {
@@ -66,7 +75,7 @@ KeyFiles create_key_files(const std::string& name) {
   }
   KeyPairPem pair = generate_key_pair();
   // 0600: only the owner may read the private key (it signs reports in the station's name).
-  write_new_file(files.private_path, pair.private_pem, 0600);
+  write_new_file(files.private_path, pair.private_pem, 0600, /*exact=*/true);
   try {
     write_new_file(files.public_path, pair.public_pem, 0644);
   } catch (...) {
@@ -87,6 +96,48 @@ std::string read_file_bytes(const std::string& path) {
   ss << in.rdbuf();
   if (in.bad()) throw Error(ExitCode::io_error, path + ": read failed");
   return ss.str();
+}
+
+std::string read_private_key_file(const std::string& path) {
+  int fd = ::open(path.c_str(), O_RDONLY | O_CLOEXEC);
+  if (fd < 0) {
+    if (errno == ENOENT) throw Error(ExitCode::no_input, path + ": no such file");
+    throw Error(ExitCode::io_error, path + ": cannot open: " + errno_text());
+  }
+  struct stat st {};
+  if (::fstat(fd, &st) != 0) {
+    std::string why = errno_text();
+    ::close(fd);
+    throw Error(ExitCode::io_error, path + ": cannot read its mode: " + why);
+  }
+  if ((st.st_mode & 077) != 0) {
+    ::close(fd);
+    char mode[8];
+    std::snprintf(mode, sizeof mode, "%04o", static_cast<unsigned>(st.st_mode & 07777));
+    throw data_error(
+        path + ": private key file has mode " + mode +
+        ", so group or others can read it; refusing to use it. Restrict it with `chmod 600 " +
+        path + "` (and make a new key with `scaleproof key rotate` if others may have copied it)");
+  }
+  std::string out;
+  char buf[4096];
+  for (;;) {
+    ssize_t n = ::read(fd, buf, sizeof buf);
+    if (n < 0 && errno == EINTR) continue;
+    if (n < 0) {
+      std::string why = errno_text();
+      ::close(fd);
+      throw Error(ExitCode::io_error, path + ": read failed: " + why);
+    }
+    if (n == 0) break;
+    out.append(buf, static_cast<std::size_t>(n));
+    if (out.size() > (1u << 20)) {
+      ::close(fd);
+      throw data_error(path + ": larger than 1 MiB; expected a PEM private key");
+    }
+  }
+  ::close(fd);
+  return out;
 }
 
 void write_file_atomic(const std::string& path, const std::string& bytes, bool exclusive) {

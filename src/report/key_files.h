@@ -20,6 +20,13 @@ KeyFiles create_key_files(const std::string& name);
 
 // Whole-file reads for keys, records and reports; throws no_input / io_error naming the path.
 std::string read_file_bytes(const std::string& path);
+
+// Reads a private key file, refusing one that group or others may access, as OpenSSH does for
+// its identity files (ssh(1), "Permissions 0644 ... are too open"): any of the mode bits 077
+// set throws data_error (exit 65) naming the file, its mode and the fix (`chmod 600 FILE`).
+// The mode checked is that of the descriptor read (fstat), so the file cannot be swapped
+// between the check and the read. Missing: no_input; unreadable: io_error.
+std::string read_private_key_file(const std::string& path);
 // Writes `bytes` to `path` atomically: a temp file beside it, fsync, rename. When `exclusive`,
 // refuses (cant_create) if `path` exists. Nothing is left behind on failure.
 void write_file_atomic(const std::string& path, const std::string& bytes, bool exclusive);

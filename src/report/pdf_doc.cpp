@@ -17,6 +17,7 @@
 
 #include "core/embedded.h"
 #include "core/error.h"
+#include "report/hpdf_signature.h"
 #include "report/winansi.h"
 
 namespace sp::report {
@@ -203,6 +204,13 @@ class HpdfDocument : public PdfDocument {
     put(HPDF_INFO_PRODUCER, info.creator);
     if (!info.created.empty()) HPDF_SetInfoDateAttr(pdf_, HPDF_INFO_CREATION_DATE, parse_date(info.created));
     check("writing document info");
+  }
+
+  void reserve_signature(const std::string& signing_time) override {
+    std::optional<HPDF_Date> when;
+    if (!signing_time.empty()) when = parse_date(signing_time);
+    hpdf_reserve_signature(pdf_, when);
+    check("reserving the signature");
   }
 
   std::string finish() override {

@@ -48,6 +48,11 @@ class PdfDocument {
   // Embeds `bytes` as an attachment named `name` (a bare file name, no folder).
   virtual void attach(const std::string& name, const std::string& bytes) = 0;
   virtual void set_info(const DocInfo& info) = 0;
+  // Reserves the in-file signature (report/pdf_signature.h: an invisible signature field on the
+  // first page with placeholder /ByteRange and /Contents, which sign_pdf_in_place fills once
+  // finish() has returned the bytes). `signing_time`: a DocInfo::created date for /M, or "".
+  // Call once, after the first page.
+  virtual void reserve_signature(const std::string& signing_time) = 0;
   // Finishes the document and returns the file's bytes. Call once.
   virtual std::string finish() = 0;
 };

@@ -1,126 +1,114 @@
 #include "report/pdf_extract.h"
 
+// qpdf 11: PointerHolder is not used here (POINTERHOLDER_TRANSITION 4: std::shared_ptr only).
+#define POINTERHOLDER_TRANSITION 4
+#include <qpdf/Pipeline.hh>
+#include <qpdf/QPDF.hh>
+#include <qpdf/QPDFAcroFormDocumentHelper.hh>
+#include <qpdf/QPDFEmbeddedFileDocumentHelper.hh>
+#include <qpdf/QPDFFileSpecObjectHelper.hh>
+#include <qpdf/QPDFFormFieldObjectHelper.hh>
+#include <stdexcept>
 
 namespace sp::report {
 namespace {
 
-bool is_space(char c) {
-  return c == ' ' || c == '\n' || c == '\r' || c == '\t' || c == '\f' || c == '\0';
-}
-bool is_digit(char c) { return c >= '0' && c <= '9'; }
-
-void skip_space(std::string_view s, std::size_t& i) {
-  while (i < s.size() && is_space(s[i])) ++i;
-}
-
-// Reads a non-negative decimal integer (at most 12 digits) at i.
-std::optional<std::size_t> read_uint(std::string_view s, std::size_t& i) {
-  skip_space(s, i);
-  std::size_t start = i, v = 0;
-  while (i < s.size() && is_digit(s[i]) && i - start < 12) v = v * 10 + static_cast<std::size_t>(s[i++] - '0');
-  if (i == start || (i < s.size() && is_digit(s[i]))) return std::nullopt;
-  return v;
-}
-
-bool read_word(std::string_view s, std::size_t& i, std::string_view word) {
-  skip_space(s, i);
-  if (s.substr(i, word.size()) != word) return false;
-  i += word.size();
-  return true;
-}
-
-// Reads "n g R" at i; returns n.
-std::optional<std::size_t> read_ref(std::string_view s, std::size_t& i) {
-  auto n = read_uint(s, i);
-  if (!n || !read_uint(s, i) || !read_word(s, i, "R")) return std::nullopt;
-  return n;
-}
-
-// Position just after "n 0 obj" for object n (first definition at a line start), or npos.
-std::size_t find_object(std::string_view pdf, std::size_t n) {
-  std::string head = std::to_string(n) + " 0 obj";
-  std::size_t pos = 0, found = std::string_view::npos;
-  while ((pos = pdf.find(head, pos)) != std::string_view::npos) {
-    bool line_start = pos == 0 || pdf[pos - 1] == '\n' || pdf[pos - 1] == '\r';
-    if (line_start) {
-      if (found != std::string_view::npos) return std::string_view::npos;  // redefined: refuse
-      found = pos + head.size();
-    }
-    pos += head.size();
+// Collects a stream's decoded bytes, refusing more than `cap`.
+class CappedBuffer : public Pipeline {
+ public:
+  explicit CappedBuffer(std::size_t cap) : Pipeline("capped buffer", nullptr), cap_(cap) {}
+  void write(unsigned char const* data, size_t len) override {
+    if (len > cap_ - out_.size()) throw std::length_error("attachment larger than the limit");
+    out_.append(reinterpret_cast<const char*>(data), len);
   }
-  return found;
+  void finish() override {}
+  std::string take() { return std::move(out_); }
+
+ private:
+  std::size_t cap_;
+  std::string out_;
+};
+
+std::optional<std::string> stream_bytes(QPDFObjectHandle stream) {
+  if (!stream.isStream()) return std::nullopt;
+  try {
+    CappedBuffer buf(kMaxAttachmentBytes);
+    bool filtered = false;
+    if (!stream.pipeStreamData(&buf, &filtered, 0, qpdf_dl_generalized, true, false)) {
+      return std::nullopt;
+    }
+    return buf.take();
+  } catch (const std::exception&) {
+    return std::nullopt;
+  }
 }
 
-// End of the dictionary that starts at `open` ("<<"), tracking nesting; npos if unbalanced.
-std::size_t dict_end(std::string_view s, std::size_t open) {
-  int depth = 0;
-  for (std::size_t i = open; i + 1 < s.size(); ++i) {
-    if (s[i] == '<' && s[i + 1] == '<') {
-      ++depth;
-      ++i;
-    } else if (s[i] == '>' && s[i + 1] == '>') {
-      if (--depth == 0) return i + 2;
-      ++i;
+std::optional<PdfSignatureDict> signature_of(QPDFFormFieldObjectHelper& field) {
+  QPDFObjectHandle v = field.getValue();
+  if (!v.isDictionary()) return std::nullopt;
+  PdfSignatureDict sig;
+  sig.field = field.getFullyQualifiedName();
+  QPDFObjectHandle range = v.getKey("/ByteRange");
+  if (range.isArray()) {
+    for (QPDFObjectHandle n : range.getArrayAsVector()) {
+      sig.byte_range.push_back(n.isInteger() ? n.getIntValue() : -1);
     }
   }
-  return std::string_view::npos;
-}
-
-std::optional<std::string> stream_of_object(std::string_view pdf, std::size_t n) {
-  std::size_t i = find_object(pdf, n);
-  if (i == std::string_view::npos) return std::nullopt;
-  skip_space(pdf, i);
-  if (pdf.substr(i, 2) != "<<") return std::nullopt;
-  std::size_t end = dict_end(pdf, i);
-  if (end == std::string_view::npos) return std::nullopt;
-  std::string_view dict = pdf.substr(i, end - i);
-  if (dict.find("/Filter") != std::string_view::npos) return std::nullopt;  // we write none
-  std::size_t k = dict.find("/Length");
-  if (k == std::string_view::npos) return std::nullopt;
-  k += 7;
-  std::size_t save = k;
-  std::optional<std::size_t> length;
-  if (auto ref = read_ref(dict, k)) {
-    std::size_t j = find_object(pdf, *ref);
-    if (j == std::string_view::npos) return std::nullopt;
-    length = read_uint(pdf, j);
-    if (!length || !read_word(pdf, j, "endobj")) return std::nullopt;
-  } else {
-    k = save;
-    length = read_uint(dict, k);
-  }
-  if (!length) return std::nullopt;
-  std::size_t s = end;
-  if (!read_word(pdf, s, "stream")) return std::nullopt;
-  if (s < pdf.size() && pdf[s] == '\r') ++s;
-  if (s >= pdf.size() || pdf[s] != '\n') return std::nullopt;
-  ++s;
-  if (*length > pdf.size() - s) return std::nullopt;
-  std::size_t after = s + *length;
-  if (!read_word(pdf, after, "endstream")) return std::nullopt;
-  return std::string(pdf.substr(s, *length));
+  QPDFObjectHandle contents = v.getKey("/Contents");
+  if (contents.isString()) sig.contents = contents.getStringValue();
+  return sig;
 }
 
 }  // namespace
 
 bool looks_like_pdf(std::string_view bytes) {
-  return bytes.substr(0, 5) == "%PDF-" && bytes.find("%%EOF") != std::string_view::npos;
+  // The header only: a file cut short (no %%EOF) is still read (qpdf recovers what it can),
+  // so verification can say the signed range runs past its end.
+  return bytes.substr(0, 5) == "%PDF-";
+}
+
+PdfContents read_pdf(std::string_view pdf) {
+  PdfContents out;
+  if (!looks_like_pdf(pdf)) {
+    out.problem = "no %PDF- header";
+    return out;
+  }
+  try {
+    QPDF q;
+    q.setSuppressWarnings(true);
+    q.processMemoryFile("report", pdf.data(), pdf.size());
+    QPDFEmbeddedFileDocumentHelper files(q);
+    for (auto& [name, spec] : files.getEmbeddedFiles()) {
+      out.attachments.push_back({name, stream_bytes(spec->getEmbeddedFileStream())});
+    }
+    QPDFAcroFormDocumentHelper form(q);
+    for (QPDFFormFieldObjectHelper& field : form.getFormFields()) {
+      if (field.getFieldType() != "/Sig") continue;
+      if (auto sig = signature_of(field)) out.signatures.push_back(std::move(*sig));
+    }
+    out.parsed = true;
+  } catch (const std::exception& e) {
+    out = PdfContents{};
+    out.problem = e.what();
+  } catch (...) {
+    out = PdfContents{};
+    out.problem = "unreadable PDF";
+  }
+  return out;
+}
+
+std::optional<std::string> find_attachment(const PdfContents& contents, std::string_view name) {
+  const PdfAttachment* found = nullptr;
+  for (const auto& a : contents.attachments) {
+    if (a.name != name) continue;
+    if (found != nullptr) return std::nullopt;  // ambiguous
+    found = &a;
+  }
+  return found ? found->bytes : std::nullopt;
 }
 
 std::optional<std::string> find_attachment(std::string_view pdf, std::string_view name) {
-  if (!looks_like_pdf(pdf) || name.empty()) return std::nullopt;
-  std::string key = "/F (" + std::string(name) + ")";
-  std::size_t pos = pdf.find(key);
-  if (pos == std::string_view::npos) return std::nullopt;
-  if (pdf.find(key, pos + key.size()) != std::string_view::npos) return std::nullopt;  // ambiguous
-  std::size_t ef = pdf.find("/EF", pos + key.size());
-  std::size_t stop = pdf.find("endobj", pos);
-  if (ef == std::string_view::npos || stop == std::string_view::npos || ef > stop) return std::nullopt;
-  std::size_t i = ef + 3;
-  if (!read_word(pdf, i, "<<") || !read_word(pdf, i, "/F")) return std::nullopt;
-  auto ref = read_ref(pdf, i);
-  if (!ref) return std::nullopt;
-  return stream_of_object(pdf, *ref);
+  return find_attachment(read_pdf(pdf), name);
 }
 
 }  // namespace sp::report

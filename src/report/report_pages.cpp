@@ -309,6 +309,7 @@ std::string render_report_pdf(const RenderInput& in) {
   doc->set_info(info);
   doc->attach(kRecordAttachment, in.record_text);
   doc->attach(kRecordSigAttachment, in.record_signature);
+  if (in.reserve_signature) doc->reserve_signature(info.created);
   return doc->finish();
 }
 

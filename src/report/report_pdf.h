@@ -27,6 +27,9 @@ struct RenderInput {
   std::string record_signature;            // 64 bytes
   std::string paper = "a4";                // "a4" | "letter"
   std::string font_dir = "/usr/share/fonts/truetype/dejavu";
+  // Reserve the in-file signature (report/pdf_signature.h), to be filled by sign_pdf_in_place;
+  // its /M is the record's issued_at.
+  bool reserve_signature = false;
 };
 
 std::string render_report_pdf(const RenderInput& in);

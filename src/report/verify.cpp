@@ -2,6 +2,7 @@
 
 #include "core/error.h"
 #include "report/pdf_extract.h"
+#include "report/pdf_signature.h"
 #include "report/record.h"
 #include "report/report_pdf.h"
 
@@ -38,7 +39,69 @@ bool VerifyResult::all_hold() const {
   for (const auto& c : checks) {
     if (c.status == CheckStatus::failed) return false;
   }
-  return true;
+  return pages_verified || record_only;
+}
+
+std::string VerifyResult::verdict() const {
+  if (!is_report) return "NOT A WEIGH-REPORT: " + not_report_reason;
+  std::string failed;
+  for (const auto& c : checks) {
+    if (c.status == CheckStatus::failed) failed += (failed.empty() ? "" : ", ") + c.name;
+  }
+  if (!failed.empty()) return "VERIFICATION FAILED: " + failed;
+  const std::string origin =
+      origin_checked ? ""
+                     : "; the origin was not checked (no --pubkey or --trust): the key " +
+                           fingerprint + " is whoever signed it";
+  if (record_only) {
+    return "record checks hold (--record-only: the printed pages were not checked)" + origin;
+  }
+  if (!pages_verified) {
+    return "PAGES NOT VERIFIED: no signature covers the printed pages (none inside the PDF, no "
+           ".sig beside "
+           "it); only the embedded record was checked";
+  }
+  if (!origin_checked) {
+    return "all checks hold, but the origin was not checked: the file is intact since key " +
+           fingerprint + " signed it; pass --pubkey or --trust to check that key is the station's";
+  }
+  return "all checks hold: the printed pages and the weigh record are as the station key signed "
+         "them";
+}
+
+std::vector<std::string> VerifyResult::coverage() const {
+  std::vector<std::string> out;
+  if (!is_report) return out;
+  auto status = [&](const char* name) {
+    for (const auto& c : checks) {
+      if (c.name == name) return c.status;
+    }
+    return CheckStatus::skipped;
+  };
+  std::vector<std::string> pages, record;
+  if (status("in-file signature") == CheckStatus::passed) {
+    pages.push_back("the in-file signature");
+    record.push_back("the in-file signature");
+  }
+  if (status("detached signature") == CheckStatus::passed) {
+    pages.push_back("the detached signature");
+    record.push_back("the detached signature");
+  }
+  if (status("record signature") == CheckStatus::passed)
+    record.insert(record.begin(), "the record signature");
+  auto join = [](const std::vector<std::string>& v) {
+    std::string s;
+    for (std::size_t i = 0; i < v.size(); ++i)
+      s += (i == 0 ? "" : i + 1 == v.size() ? " and " : ", ") + v[i];
+    return s;
+  };
+  out.push_back("printed pages: " + (pages.empty()
+                                         ? std::string("covered by no signature that holds")
+                                         : "covered by " + join(pages)));
+  out.push_back("weigh record:  " + (record.empty()
+                                         ? std::string("covered by no signature that holds")
+                                         : "covered by " + join(record)));
+  return out;
 }
 
 std::size_t json_depth(std::string_view text) {
@@ -62,11 +125,17 @@ std::size_t json_depth(std::string_view text) {
 
 VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& options) {
   VerifyResult out;
+  out.record_only = options.record_only;
   if (!looks_like_pdf(pdf)) {
-    out.not_report_reason = "not a PDF file (no %PDF- header or %%EOF marker)";
+    out.not_report_reason = "not a PDF file (no %PDF- header)";
     return out;
   }
-  std::optional<std::string> text = find_attachment(pdf, kRecordAttachment);
+  const PdfContents contents = read_pdf(pdf);
+  if (!contents.parsed) {
+    out.not_report_reason = "not a readable PDF (" + contents.problem + ")";
+    return out;
+  }
+  std::optional<std::string> text = find_attachment(contents, kRecordAttachment);
   if (!text) {
     out.not_report_reason = std::string("no embedded ") + kRecordAttachment + "; not a scaleproof weigh-report";
     return out;
@@ -83,6 +152,10 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
       record["report"]["id"].is_string()) {
     out.report_id = record["report"]["id"].get<std::string>();
   }
+  if (record.contains("report") && record["report"].is_object() &&
+      record["report"].contains("issued_at") && record["report"]["issued_at"].is_string()) {
+    out.issued_at = record["report"]["issued_at"].get<std::string>();
+  }
 
   // Which key: the station's (given) or the one the record names.
   std::string named;
@@ -97,11 +170,48 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
     }
   }
   const Verifier* key = options.station_key ? options.station_key : record_key.get();
-  std::string whose = options.station_key ? "the station key " + fingerprint(options.station_key->public_key())
-                                          : "the key named in the record " + out.fingerprint +
-                                                " (pass --pubkey to check it is the station's)";
+  std::string whose =
+      options.station_key ? "the station key " + fingerprint(options.station_key->public_key())
+      : options.trust     ? "the record's key " + out.fingerprint
+                          : "the key named in the record " + out.fingerprint +
+                            " (pass --pubkey or --trust to check it is the station's)";
+  out.origin_checked = options.station_key != nullptr || options.trust != nullptr;
 
-  std::optional<std::string> sig = find_attachment(pdf, kRecordSigAttachment);
+  // The in-file signature first: it covers the pages and the record together.
+  if (contents.signatures.empty()) {
+    out.checks.push_back(
+        {"in-file signature", CheckStatus::skipped,
+         "none inside the PDF (reports issued before in-file signatures carry only the .sig)"});
+  } else {
+    std::optional<VerifyCheck> chosen;
+    for (const PdfSignatureDict& d : contents.signatures) {
+      PdfSignatureCheck c = check_pdf_signature(pdf, d);
+      bool by_key = key != nullptr && c.signer_key == key->public_key();
+      VerifyCheck vc;
+      vc.name = "in-file signature";
+      if (c.valid && by_key) {
+        vc.status = CheckStatus::passed;
+        vc.detail = "CMS (RFC 8419) over the whole file but its own value (bytes 0-" +
+                    std::to_string(c.gap_start) + " and " + std::to_string(c.gap_end) + "-" +
+                    std::to_string(c.covered_end) + "), by " + whose;
+      } else {
+        vc.status = CheckStatus::failed;
+        vc.detail = !c.problem.empty() ? c.problem
+                    : !key             ? "no key to check it with"
+                                       : "signed by key " +
+                                 (c.signer_key.size() == kPublicKeySize ? fingerprint(c.signer_key)
+                                                                        : std::string("(none)")) +
+                                 ", not " + whose;
+      }
+      if (!chosen || (chosen->status == CheckStatus::failed && vc.status == CheckStatus::passed)) {
+        chosen = vc;
+        out.in_file = c;
+      }
+    }
+    out.checks.push_back(*chosen);
+  }
+
+  std::optional<std::string> sig = find_attachment(contents, kRecordSigAttachment);
   if (!key) {
     out.checks.push_back(check("record signature", false, "the record names no valid Ed25519 public key"));
   } else if (!sig) {
@@ -132,8 +242,34 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
                                same ? "the record names the station key"
                                     : "the record names key " + (out.fingerprint.empty() ? "(none)" : out.fingerprint) +
                                           ", not the station key"));
+  } else if (options.trust) {
+    std::optional<std::string> issued, latest;
+    const auto& rep = record.find("report");
+    if (rep != record.end() && rep->is_object() && rep->contains("issued_at") &&
+        (*rep)["issued_at"].is_string()) {
+      issued = (*rep)["issued_at"].get<std::string>();
+    }
+    const auto& ses = record.find("session");
+    if (ses != record.end() && ses->is_object() && ses->contains("passes") &&
+        (*ses)["passes"].is_array()) {
+      std::optional<std::int64_t> best;
+      for (const auto& p : (*ses)["passes"]) {
+        if (!p.is_object() || !p.contains("weighed_at") || !p["weighed_at"].is_string()) continue;
+        const std::string w = p["weighed_at"].get<std::string>();
+        auto t = iso_utc_seconds(w);
+        if (t && (!best || *t > *best)) {
+          best = t;
+          latest = w;
+        }
+      }
+    }
+    TrustVerdict tv = out.fingerprint.empty()
+                          ? TrustVerdict{false, nullptr, "the record names no valid key"}
+                          : check_trust(*options.trust, out.fingerprint, issued, latest);
+    out.checks.push_back(check("station key", tv.ok, tv.detail));
   } else {
-    out.checks.push_back({"station key", CheckStatus::skipped, "no --pubkey given"});
+    out.checks.push_back({"station key", CheckStatus::skipped,
+                          "no --pubkey or --trust given: the origin was not checked"});
   }
 
   if (!options.recompute) {
@@ -169,6 +305,12 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
     bool ok = key->verify(pdf, *options.detached_signature);
     out.checks.push_back(check("detached signature", ok,
                                (ok ? "the whole file is as signed, by " : "does not match the file for ") + whose));
+  }
+  for (const auto& c : out.checks) {
+    if ((c.name == "in-file signature" || c.name == "detached signature") &&
+        c.status == CheckStatus::passed) {
+      out.pages_verified = true;
+    }
   }
   return out;
 }

@@ -57,9 +57,41 @@ open(sys.argv[1], "wb").write(b.replace(b"Teodor Vance", b"Teodor Vanse"))
 PY
 check "forged record" 1 "file-altered signature-invalid" forged --trust station.pub.pem "${A[@]}"
 
-# A report without its .sig: only the embedded record is checked (a note).
+# A report without its .sig: its in-file signature covers the pages, no finding.
 mkdir -p nosig && cp good/report.pdf nosig/
-check "no detached signature" 0 "no-detached-signature" nosig --trust station.pub.pem "${A[@]}"
+check "no detached signature, in-file signature" 0 "" nosig --trust station.pub.pem "${A[@]}"
+# A report from before in-file signatures (field type renamed: no signature field is found),
+# without its .sig: no signature covers the pages, a warning.
+mkdir -p unsigned
+python3 - good/report.pdf unsigned/report.pdf <<'PY'
+import sys
+b = open(sys.argv[1], "rb").read()
+assert b.count(b"/FT /Sig") == 1
+open(sys.argv[2], "wb").write(b.replace(b"/FT /Sig", b"/FT /Xyz"))
+PY
+check "pages unsigned" 0 "pages-unsigned" unsigned --trust station.pub.pem "${A[@]}"
+# Bytes appended after the signed range (an incremental update): an error naming the offset.
+mkdir -p appended && cp good/report.pdf good/report.pdf.sig appended/
+size=$(stat -c %s good/report.pdf)
+printf '\n%% appended\n' >> appended/report.pdf
+check "appended bytes" 1 "signature-incomplete" appended --trust station.pub.pem "${A[@]}"
+expect_in "$WORK/out" "from offset $size on"
+
+# The trust file: a report issued inside the key's validity is clean; after its end (key
+# rotated), or after its revocation, an error.
+{ echo 'format = "scaleproof-trust/1"'; echo; sed -n '/^\[\[key/,$p' <<<"$("$SCALEPROOF" key new --out rot1 --station "Quarry Road Scale" --valid-from 2026-01-01T00:00:00Z)"; } > stations.trust.toml
+expect_exit 0 "$SCALEPROOF" key rotate --old rot1 --out rot2 --at 2026-11-01T00:00:00Z --trust stations.trust.toml
+cp "$WORK/out" rotated.trust.toml
+expect_in rotated.trust.toml 'valid_to = "2026-11-01T00:00:00Z"'
+mkdir -p intime late
+expect_exit 0 "$SCALEPROOF" report "$C/clean/session.json" --key rot1.key --out intime/report.pdf --issued-at 2026-10-20T09:00:00Z
+expect_exit 0 "$SCALEPROOF" report "$C/clean/session.json" --key rot1.key --out late/report.pdf --issued-at 2026-11-20T09:00:00Z
+check "issued within the key's validity" 0 "" intime --trust rotated.trust.toml "${A[@]}"
+check "issued after the key's end" 1 "key-outside-validity" late --trust rotated.trust.toml "${A[@]}"
+expect_exit 0 "$SCALEPROOF" key rotate --old rot1 --out rot3 --at 2026-10-01T00:00:00Z --revoke --trust stations.trust.toml
+cp "$WORK/out" revoked.trust.toml
+check "issued after revocation" 1 "key-outside-validity" intime --trust revoked.trust.toml "${A[@]}"
+expect_in "$WORK/out" "revocation"
 
 # The same weighing as a report in one claim and as a session file in another: reuse.
 check "report reused in another claim" 1 "ticket-reuse" good/report.pdf "$C/reuse-a" --trust station.pub.pem "${A[@]}"

@@ -140,9 +140,11 @@ TEST_CASE("audit rules: signed-report facts") {
   };
   const std::vector<RCase> cases = {
       {"clean report", [](VerificationFacts&, AuditOptions&) {}, {}},
-      {"signature-invalid", [](VerificationFacts& v, AuditOptions&) { v.record_signature_ok = false; },
+      {"signature-invalid",
+       [](VerificationFacts& v, AuditOptions&) { v.record_signature_ok = false; },
        {"signature-invalid"}},
-      {"key-untrusted", [](VerificationFacts& v, AuditOptions&) { v.key_trusted = false; },
+      {"key-untrusted",
+       [](VerificationFacts& v, AuditOptions&) { v.key_trusted = false; },
        {"key-untrusted"}},
       {"record-mismatch",
        [](VerificationFacts& v, AuditOptions&) {
@@ -150,14 +152,39 @@ TEST_CASE("audit rules: signed-report facts") {
          v.mismatches = {"tongue_load: stated 1100 lb, recomputed 996 lb"};
        },
        {"record-mismatch"}},
-      {"file-altered", [](VerificationFacts& v, AuditOptions&) { v.detached_ok = false; },
+      {"file-altered",
+       [](VerificationFacts& v, AuditOptions&) { v.detached_ok = false; },
        {"file-altered"}},
-      {"no-detached-signature",
+      {"pages-unsigned (no in-file signature, no .sig)",
        [](VerificationFacts& v, AuditOptions&) {
          v.detached_present = false;
          v.detached_ok = false;
        },
-       {"no-detached-signature"}},
+       {"pages-unsigned"}},
+      {"in-file signature alone covers the pages",
+       [](VerificationFacts& v, AuditOptions&) {
+         v.detached_present = false;
+         v.in_file_present = v.in_file_ok = true;
+       },
+       {}},
+      {"in-file signature fails",
+       [](VerificationFacts& v, AuditOptions&) { v.in_file_present = true; },
+       {"file-altered"}},
+      {"signature-incomplete: bytes appended after the signed range (one finding, not two)",
+       [](VerificationFacts& v, AuditOptions&) {
+         v.in_file_present = true;
+         v.in_file_covered_end = 56073;
+         v.file_size = 56400;
+         v.detached_ok = false;
+       },
+       {"signature-incomplete"}},
+      {"key-outside-validity",
+       [](VerificationFacts& v, AuditOptions&) {
+         v.key_in_validity = false;
+         v.key_validity_detail =
+             "issued at 2026-11-14T10:30:00-05:00, after the key ceased to be valid";
+       },
+       {"key-outside-validity"}},
   };
   for (const auto& c : cases) {
     CAPTURE(c.name);

@@ -2,6 +2,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <cstdio>
 #include <cstdlib>
 
 #include "core/error.h"
@@ -66,5 +67,65 @@ TEST_CASE("write_file_atomic exclusive refuses an existing file and keeps it") {
   CHECK_THROWS_AS(write_file_atomic(p, "second", true), sp::Error);
   CHECK(read_file_bytes(p) == "first");
   ::unlink(p.c_str());
+  ::rmdir(dir.c_str());
+}
+
+TEST_CASE(
+    "private key files that group or others can access are refused, naming the mode and the fix") {
+  // OpenSSH refuses identity files with any of the mode bits 077 set (ssh(1), common practice
+  // for secrets); the key that signs reports in the station's name gets the same rule.
+  std::string dir = temp_dir();
+  KeyFiles f = create_key_files(dir + "/station");
+  struct Case {
+    mode_t mode;
+    bool accepted;
+  };
+  const Case cases[] = {{0600, true},  {0400, true},  {0700, true},  {0640, false}, {0644, false},
+                        {0604, false}, {0660, false}, {0666, false}, {0620, false}, {0602, false},
+                        {0610, false}, {0601, false}, {0755, false}, {0777, false}};
+  for (const Case& c : cases) {
+    char want[8];
+    std::snprintf(want, sizeof want, "%04o", static_cast<unsigned>(c.mode));
+    CAPTURE(want);
+    REQUIRE(::chmod(f.private_path.c_str(), c.mode) == 0);
+    if (c.accepted) {
+      CHECK(signer_from_pem(read_private_key_file(f.private_path), f.private_path)
+                ->public_key()
+                .size() == kPublicKeySize);
+      continue;
+    }
+    try {
+      read_private_key_file(f.private_path);
+      FAIL("expected data_error");
+    } catch (const sp::Error& e) {
+      std::string msg = e.what();
+      CAPTURE(msg);
+      CHECK(e.code() == sp::ExitCode::data_error);
+      CHECK(msg.find(f.private_path) != std::string::npos);
+      CHECK(msg.find(std::string("mode ") + want) != std::string::npos);
+      CHECK(msg.find("chmod 600 " + f.private_path) != std::string::npos);
+    }
+  }
+  try {
+    read_private_key_file(dir + "/missing.key");
+    FAIL("expected no_input");
+  } catch (const sp::Error& e) {
+    CHECK(e.code() == sp::ExitCode::no_input);
+  }
+  ::unlink(f.private_path.c_str());
+  ::unlink(f.public_path.c_str());
+  ::rmdir(dir.c_str());
+}
+
+TEST_CASE("key new writes the private key 0600 whatever the umask") {
+  std::string dir = temp_dir();
+  mode_t old = ::umask(0);
+  KeyFiles f = create_key_files(dir + "/station");
+  ::umask(old);
+  struct stat st {};
+  REQUIRE(::stat(f.private_path.c_str(), &st) == 0);
+  CHECK((st.st_mode & 07777) == 0600);
+  ::unlink(f.private_path.c_str());
+  ::unlink(f.public_path.c_str());
   ::rmdir(dir.c_str());
 }
