@@ -195,8 +195,8 @@ import sys, re
 a = open(sys.argv[1], "rb").read(); o = open(sys.argv[2], "rb").read()
 # The other key's record and record signature put in place of ours (same lengths).
 
-ra = a[a.index(b'{"format":"scaleproof-record/1"'):]; ra = ra[:ra.index(b"\nendstream")]
-ro = o[o.index(b'{"format":"scaleproof-record/1"'):]; ro = ro[:ro.index(b"\nendstream")]
+ra = a[a.index(b'{"format":"scaleproof-record/2"'):]; ra = ra[:ra.index(b"\nendstream")]
+ro = o[o.index(b'{"format":"scaleproof-record/2"'):]; ro = ro[:ro.index(b"\nendstream")]
 assert len(ra) == len(ro)
 open(sys.argv[3], "wb").write(a.replace(ra, ro))
 PY
