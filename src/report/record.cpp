@@ -14,7 +14,8 @@ nlohmann::json normalised(const nlohmann::json& v, const std::string& path) {
   switch (v.type()) {
     case nlohmann::json::value_t::object: {
       nlohmann::json out = nlohmann::json::object();  // std::map: keys sorted by bytes
-      for (auto it = v.begin(); it != v.end(); ++it) out[it.key()] = normalised(*it, path + "." + it.key());
+      for (auto it = v.begin(); it != v.end(); ++it)
+        out[it.key()] = normalised(*it, path + "." + it.key());
       return out;
     }
     case nlohmann::json::value_t::array: {
@@ -26,7 +27,8 @@ nlohmann::json normalised(const nlohmann::json& v, const std::string& path) {
     }
     case nlohmann::json::value_t::number_float: {
       double d = v.get<double>();
-      if (!std::isfinite(d)) throw data_error("weigh record: " + path + ": expected a finite number");
+      if (!std::isfinite(d))
+        throw data_error("weigh record: " + path + ": expected a finite number");
       // 2^53: beyond it not every integer is a double, so keep the float form.
       if (d == std::floor(d) && std::fabs(d) < 9007199254740992.0) {
         return static_cast<std::int64_t>(d);
@@ -65,7 +67,8 @@ void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string
       }
     }
     for (auto it = b.begin(); it != b.end(); ++it) {
-      if (!a.contains(it.key())) out.push_back(path + "." + it.key() + ": recomputed, missing from the record");
+      if (!a.contains(it.key()))
+        out.push_back(path + "." + it.key() + ": recomputed, missing from the record");
     }
   } else if (a.is_array()) {
     if (a.size() != b.size()) {
@@ -121,8 +124,11 @@ nlohmann::json build_record(const nlohmann::json& session, const nlohmann::json&
           {"signature", c->signature}};
     }
   }
-  nlohmann::json record = {{"format", kRecordFormat}, {"report", report}, {"session", session},
-                           {"results", results},      {"ledger", ledger}};
+  nlohmann::json record = {{"format", kRecordFormat},
+                           {"report", report},
+                           {"session", session},
+                           {"results", results},
+                           {"ledger", ledger}};
   record["report"]["id"] = report_id(record);
   return record;
 }
@@ -152,6 +158,58 @@ std::optional<LedgerAnchor> record_ledger(const nlohmann::json& record) {
     throw data_error(std::string("weigh record: $.ledger: expected {rows, head, checkpoint}: ") +
                      e.what());
   }
+}
+
+namespace {
+
+bool is_wording_key(const std::string& key) {
+  return key == "message" || key == "label" || key == "note" || key == "unsolved";
+}
+
+// Copies `stated`'s strings over `v` wherever both hold a string at the same path (only under
+// wording keys), recursing through objects and equal-length arrays.
+void keep_stated_wording(nlohmann::json& v, const nlohmann::json& stated, bool wording) {
+  if (v.is_string() && stated.is_string()) {
+    if (wording) v = stated;
+  } else if (v.is_object() && stated.is_object()) {
+    for (auto it = v.begin(); it != v.end(); ++it) {
+      auto s = stated.find(it.key());
+      if (s != stated.end()) keep_stated_wording(*it, *s, wording || is_wording_key(it.key()));
+    }
+  } else if (v.is_array() && stated.is_array() && v.size() == stated.size()) {
+    for (std::size_t i = 0; i < v.size(); ++i) keep_stated_wording(v[i], stated[i], wording);
+  }
+}
+
+}  // namespace
+
+nlohmann::json results_as_format1(const nlohmann::json& recomputed, const nlohmann::json& stated) {
+  nlohmann::json v = recomputed;
+  if (!v.is_object()) return v;
+  for (const char* k :
+       {"verdict", "verdict_reason", "uncertainty", "tow_steer", "tow_drive", "if_excluded"}) {
+    v.erase(k);
+  }
+  if (auto t = v.find("target"); t != v.end() && t->is_object()) {
+    t->erase("provisional");
+    t->erase("whole_step");
+  }
+  if (auto ts = v.find("tensioned"); ts != v.end() && ts->is_array()) {
+    for (auto& p : *ts) {
+      if (p.is_object()) p.erase("note");
+    }
+  }
+  if (auto fs = v.find("flags"); fs != v.end() && fs->is_array()) {
+    nlohmann::json kept = nlohmann::json::array();
+    for (auto& f : *fs) {
+      if (f.is_object() && f.value("code", "") == "rating-over") continue;
+      if (f.is_object()) f.erase("rating");
+      kept.push_back(f);
+    }
+    *fs = kept;
+  }
+  keep_stated_wording(v, stated, false);
+  return v;
 }
 
 std::vector<std::string> compare_results(const nlohmann::json& stated,

@@ -88,4 +88,14 @@ std::vector<std::string> compare_results(const nlohmann::json& stated,
                                          const nlohmann::json& recomputed,
                                          std::size_t max_lines = 20);
 
+// The recomputed results as a format 1 record stated them, so reports issued before format 2
+// still verify. Format 2 added to the results: "verdict", "verdict_reason", "uncertainty",
+// "tow_steer", "tow_drive", "if_excluded", "target.provisional", "target.whole_step",
+// "tensioned[].note", "flags[].rating" and the flag code "rating-over"; these are removed.
+// Wording ("message", "label", "note" strings and "unsolved" lines) is the issuing software's
+// and has been reworded since (fifth-wheel terms, one finding per cause), so in a format 1
+// record only numbers, codes, statuses and the shape are compared: the wording of `stated`
+// is copied over the projection where both have a string at the same place.
+nlohmann::json results_as_format1(const nlohmann::json& recomputed, const nlohmann::json& stated);
+
 }  // namespace sp::report

@@ -280,8 +280,12 @@ VerifyResult verify_report_bytes(std::string_view pdf, const VerifyOptions& opti
     // A hostile record must not abort verification: its failure becomes a failed check.
     try {
       nlohmann::json again = options.recompute(record["session"]);
+      const bool format1 = record["format"] == kRecordFormatV1;
+      if (format1) again = results_as_format1(again, record["results"]);
       std::vector<std::string> diffs = compare_results(record["results"], again);
-      std::string detail = "recomputed from the record's inputs: ";
+      std::string detail = format1 ? "recomputed from the record's inputs (a format 1 record: "
+                                     "its numbers, codes and statuses): "
+                                   : "recomputed from the record's inputs: ";
       if (diffs.empty()) {
         detail += "all results agree";
       } else {
