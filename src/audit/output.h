@@ -16,6 +16,7 @@
 //    "cautions": [text...]}
 // Items and findings are in the AuditResult's order (worst first).
 #pragma once
+#include <memory>
 #include <nlohmann/json.hpp>
 #include <string>
 #include <vector>
@@ -59,6 +60,30 @@ std::string audit_text_tail(std::size_t clean, const std::vector<std::string>& c
 // One element of the document's "items".
 nlohmann::ordered_json audit_json_item(const ItemAudit& item);
 // The audit summary PDF (A4), bytes. Throws sp::Error(internal) when the PDF cannot be made.
+// It is AuditPdfWriter fed with report.result's items.
 std::string audit_pdf(const AuditReport& report);
+
+// The summary PDF drawn one item at a time, for writers that stream the items
+// (audit/output_stream.h): audit_pdf(report) byte for byte when given the same items.
+// The head (counts from report.result, `items` items in all, limits, keys, unreadable inputs)
+// is drawn at construction; then item() for each item with findings, in the result's order;
+// then finish() with the number of clean items and the clean_line() of the first ones in order
+// (kCleanListed are listed, the rest counted). The document is built in memory (libharu) and
+// returned by finish(). Throws sp::Error(internal) when the PDF cannot be made.
+class AuditPdfWriter {
+ public:
+  static constexpr std::size_t kCleanListed = 200;
+  AuditPdfWriter(const AuditReport& head, std::size_t items);
+  ~AuditPdfWriter();
+  AuditPdfWriter(const AuditPdfWriter&) = delete;
+  AuditPdfWriter& operator=(const AuditPdfWriter&) = delete;
+  void item(const ItemAudit& item);
+  static std::string clean_line(const ItemAudit& item);
+  std::string finish(std::size_t clean, const std::vector<std::string>& first_clean_lines);
+
+ private:
+  struct State;
+  std::unique_ptr<State> s_;
+};
 
 }  // namespace sp::audit

@@ -3,6 +3,8 @@
 // plain black-and-white text, findings grouped by item, worst first, then the cautions.
 #include <fmt/format.h>
 
+#include <memory>
+#include <optional>
 #include <sstream>
 
 #include "audit/calendar.h"
@@ -79,22 +81,26 @@ std::string sev(Severity s) {
 
 }  // namespace
 
-std::string audit_pdf(const AuditReport& rep) {
+struct AuditPdfWriter::State {
+  std::unique_ptr<report::PdfDocument> doc = report::make_pdf_document();
+  std::optional<Writer> w;
+};
+
+AuditPdfWriter::AuditPdfWriter(const AuditReport& rep, std::size_t items)
+    : s_(std::make_unique<State>()) {
   const AuditResult& r = rep.result;
   const AuditOptions& o = rep.options;
-  auto doc = report::make_pdf_document();
   report::DocInfo info;
   info.title = "Claim-file audit";
   info.subject = "Audit of weigh-reports and session files";
   info.creator = "scaleproof";
-  doc->set_info(info);
-  Writer w(*doc);
+  s_->doc->set_info(info);
+  Writer& w = s_->w.emplace(*s_->doc);
   w.para("Claim-file audit", kMargin, 18, report::Font::bold);
   w.gap(4);
   w.para(fmt::format("{} items audited: {} errors, {} warnings, {} notes; {} without findings; "
                      "{} inputs could not be read.",
-                     r.items.size(), r.errors, r.warnings, r.notes, r.clean_items,
-                     rep.unreadable.size()),
+                     items, r.errors, r.warnings, r.notes, r.clean_items, rep.unreadable.size()),
          kMargin, 10, report::Font::bold);
   w.para(fmt::format("Audited at {}. Claim date: {}.", format_utc(o.now),
                      o.claim_date.value_or("not given")),
@@ -115,48 +121,55 @@ std::string audit_pdf(const AuditReport& rep) {
     w.para("Inputs that could not be read", kMargin, 11, report::Font::bold);
     for (const auto& u : rep.unreadable) w.para(u.message, kMargin + 12);
   }
-  std::size_t clean = 0;
-  for (const auto& ia : r.items) {
-    if (ia.findings.empty()) {
-      ++clean;
-      continue;
+}
+
+AuditPdfWriter::~AuditPdfWriter() = default;
+
+void AuditPdfWriter::item(const ItemAudit& ia) {
+  Writer& w = *s_->w;
+  w.gap(6);
+  w.need(4 * kLead);
+  w.rule();
+  w.para(ia.source + " (" + std::string(to_string(ia.kind)) + ")", kMargin, 11,
+         report::Font::bold);
+  w.para(ia.label, kMargin, kBody, report::Font::regular, 0.35f);
+  w.para("Verdict: " + std::string(to_string(ia.verdict)) + ". " + ia.verdict_reason, kMargin,
+         kBody, report::Font::bold, 0.35f);
+  for (const auto& f : ia.findings) {
+    w.gap(2);
+    w.need(3 * kLead);
+    w.text_at(kMargin, sev(f.severity), kBody, report::Font::bold);
+    w.text_at(kMargin + 48, f.code, kBody, report::Font::bold);
+    w.text_at(kMargin + 160, f.ticket ? "ticket " + *f.ticket : "", kBody);
+    w.gap(kLead);
+    w.para(f.message, kMargin + 48);
+    if (!f.values.empty()) {
+      std::string ev;
+      for (const auto& v : f.values) ev += (ev.empty() ? "" : "; ") + v.name + " " + v.text;
+      w.para("Evidence: " + ev, kMargin + 48, 7.5f, report::Font::regular, 0.2f);
     }
-    w.gap(6);
-    w.need(4 * kLead);
-    w.rule();
-    w.para(ia.source + " (" + std::string(to_string(ia.kind)) + ")", kMargin, 11,
-           report::Font::bold);
-    w.para(ia.label, kMargin, kBody, report::Font::regular, 0.35f);
-    w.para("Verdict: " + std::string(to_string(ia.verdict)) + ". " + ia.verdict_reason, kMargin,
-           kBody, report::Font::bold, 0.35f);
-    for (const auto& f : ia.findings) {
-      w.gap(2);
-      w.need(3 * kLead);
-      w.text_at(kMargin, sev(f.severity), kBody, report::Font::bold);
-      w.text_at(kMargin + 48, f.code, kBody, report::Font::bold);
-      w.text_at(kMargin + 160, f.ticket ? "ticket " + *f.ticket : "", kBody);
-      w.gap(kLead);
-      w.para(f.message, kMargin + 48);
-      if (!f.values.empty()) {
-        std::string ev;
-        for (const auto& v : f.values) ev += (ev.empty() ? "" : "; ") + v.name + " " + v.text;
-        w.para("Evidence: " + ev, kMargin + 48, 7.5f, report::Font::regular, 0.2f);
-      }
-      w.para("Rule: " + f.rule, kMargin + 48, 7.5f, report::Font::regular, 0.35f);
-    }
+    w.para("Rule: " + f.rule, kMargin + 48, 7.5f, report::Font::regular, 0.35f);
   }
+}
+
+std::string AuditPdfWriter::clean_line(const ItemAudit& ia) {
+  return ia.source + ": " + ia.label + "; verdict " + std::string(to_string(ia.verdict));
+}
+
+std::string AuditPdfWriter::finish(std::size_t clean, const std::vector<std::string>& lines) {
+  Writer& w = *s_->w;
   if (clean > 0) {
     w.gap(6);
     w.rule();
     w.para(fmt::format("Without findings ({})", clean), kMargin, 11, report::Font::bold);
     std::size_t listed = 0;
-    for (const auto& ia : r.items) {
-      if (!ia.findings.empty()) continue;
-      if (++listed > 200) {
-        w.para(fmt::format("... and {} more (see the --json output)", clean - 200), kMargin + 12);
-        break;
-      }
-      w.para(ia.source + ": " + ia.label + "; verdict " + std::string(to_string(ia.verdict)),
+    for (const auto& l : lines) {
+      if (listed == kCleanListed) break;
+      ++listed;
+      w.para(l, kMargin + 12);
+    }
+    if (clean > kCleanListed) {
+      w.para(fmt::format("... and {} more (see the --json output)", clean - kCleanListed),
              kMargin + 12);
     }
   }
@@ -164,7 +177,22 @@ std::string audit_pdf(const AuditReport& rep) {
   w.rule();
   w.para("Cautions", kMargin, 11, report::Font::bold);
   for (const auto& c : audit_cautions()) w.para("- " + c, kMargin + 6);
-  return doc->finish();
+  return s_->doc->finish();
+}
+
+std::string audit_pdf(const AuditReport& rep) {
+  const AuditResult& r = rep.result;
+  AuditPdfWriter pdf(rep, r.items.size());
+  std::vector<std::string> lines;
+  std::size_t clean = 0;
+  for (const auto& ia : r.items) {
+    if (!ia.findings.empty()) {
+      pdf.item(ia);
+    } else if (++clean <= AuditPdfWriter::kCleanListed) {
+      lines.push_back(AuditPdfWriter::clean_line(ia));
+    }
+  }
+  return pdf.finish(clean, lines);
 }
 
 }  // namespace sp::audit

@@ -138,24 +138,28 @@ void register_audit(CLI::App& app, Context& ctx) {
     observer.on_skipped = [&ctx](const std::string& path, const std::string& why) {
       if (!ctx.quiet) std::cerr << "scaleproof: skipped " << path << ": " << why << "\n";
     };
-    if (!*paths && o->pdf.empty()) {
-      // Store audit: streamed, so memory stays flat however many sessions the store holds
-      // (the summary PDF needs every item at once and takes the in-memory path below).
+    if (!*paths) {
+      // Store audit: streamed, so memory stays flat however many sessions the store holds;
+      // the summary PDF is drawn from the same pass (audit/output_stream.h).
       auto db = open_store(ctx);
       std::optional<long long> one;
       if (*session) one = o->session;
       std::vector<std::string> keys;
       for (const auto& k : trusted) keys.push_back(k.fingerprint);
-      audit::AuditStreamWriter writer(
-          o->json ? audit::AuditStreamWriter::Format::json : audit::AuditStreamWriter::Format::text,
-          ctx.colour);
+      audit::AuditStreamWriter writer(o->json ? audit::AuditStreamWriter::Format::json
+                                              : audit::AuditStreamWriter::Format::text,
+                                      ctx.colour, 50, !o->pdf.empty());
       const audit::AuditResult counts =
           audit::audit_store_streamed(*db, resolve_db_path(ctx), one, opt, keys, writer, std::cout);
       if (o->json) std::cout << "\n";
+      if (!o->pdf.empty()) {
+        report::write_file_atomic(o->pdf, writer.take_pdf(), /*exclusive=*/true);
+        if (!ctx.quiet && !o->json) std::cout << "Audit summary written to " << o->pdf << "\n";
+      }
       ctx.exit_code = static_cast<int>(counts.errors > 0 ? ExitCode::check_failed : ExitCode::ok);
       return;
     }
-    audit::AuditReport rep;
+    // Reports and session files: in memory (a claim file is a handful of documents).
     LedgerCheck lc;
     std::unique_ptr<store::Txn> ledger_txn;
     if (!o->ledger.empty()) {
@@ -168,16 +172,7 @@ void register_audit(CLI::App& app, Context& ctx) {
       lc.chain = lc.store->check_chain();
       observer.prepare = [&lc](audit::AuditItem& item) { lc.prepare(item); };
     }
-    if (*paths) {
-      rep = audit::audit_paths(o->paths, trusted, opt, observer);
-    } else {
-      auto db = open_store(ctx);
-      std::optional<long long> one;
-      if (*session) one = o->session;
-      rep = audit::audit_store(*db, resolve_db_path(ctx), one, opt, observer);
-      // Store sessions carry no signatures: the trust list still shows what was given.
-      for (const auto& k : trusted) rep.trusted_keys.push_back(k.fingerprint);
-    }
+    audit::AuditReport rep = audit::audit_paths(o->paths, trusted, opt, observer);
 
     if (o->json) {
       std::cout << audit::audit_json(rep).dump(2) << "\n";

@@ -82,6 +82,10 @@ class Written {
     report::write_file_atomic(path, bytes, true);
     files_.push_back(path);
   }
+  // One folder fsync for all the names written (report and .sig, or a whole batch), before
+  // the store records them: a crash never leaves the ledger naming a report whose files
+  // vanished. Each file's data was fsynced when written.
+  void sync() const { report::sync_folders(files_); }
   void keep() { keep_ = true; }
 
  private:
@@ -211,6 +215,7 @@ void register_report(CLI::App& app, Context& ctx) {
       ids.push_back(rep.id);
       fingerprint = rep.fingerprint;
     }
+    written.sync();
     if (db) {
       store::Txn txn(*db, store::Txn::write);
       for (const store::IssuedReport& row : rows) {

@@ -12,7 +12,7 @@ namespace {
 using nlohmann::ordered_json;
 
 // Wording shared with the weigh-report's cautions (reports/): short form for a terminal.
-constexpr const char* kCaution =
+constexpr const char* kPlanCaution =
     "Caution: towing can hurt people. This plan is arithmetic on the numbers given; it does not "
     "replace the vehicle and hitch makers' instructions, local law, or an inspection by a "
     "qualified person. Weigh the rig at the chosen setting before you travel.";
@@ -292,7 +292,7 @@ std::string plan_text(const PlanResult& p, const PlanLabels& labels, bool colour
     o += "\n";
     for (const std::string& n : p.notes) o += "  Note: " + n + "\n";
   }
-  o += "\n  " + std::string(kCaution) + "\n";
+  o += "\n  " + std::string(kPlanCaution) + "\n";
   return o;
 }
 

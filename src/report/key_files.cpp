@@ -4,6 +4,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <cerrno>
 #include <cstdio>
 #include <cstring>
@@ -155,6 +156,23 @@ void write_file_atomic(const std::string& path, const std::string& bytes, bool e
   if (rc != 0) {
     errno = saved;
     throw Error(ExitCode::cant_create, path + ": cannot create: " + errno_text());
+  }
+}
+
+void sync_folders(const std::vector<std::string>& paths) {
+  std::vector<std::string> done;
+  for (const auto& p : paths) {
+    const auto slash = p.find_last_of('/');
+    const std::string dir = slash == std::string::npos ? "." : slash == 0 ? "/" : p.substr(0, slash);
+    if (std::find(done.begin(), done.end(), dir) != done.end()) continue;
+    done.push_back(dir);
+    const int fd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+    if (fd < 0 || ::fsync(fd) != 0) {
+      const std::string why = errno_text();
+      if (fd >= 0) ::close(fd);
+      throw Error(ExitCode::io_error, dir + ": cannot sync the folder: " + why);
+    }
+    ::close(fd);
   }
 }
 

@@ -5,6 +5,7 @@
 // removes what it created, so no half pair is left behind. Private keys never go into the store.
 #pragma once
 #include <string>
+#include <vector>
 
 namespace sp::report {
 
@@ -29,6 +30,12 @@ std::string read_file_bytes(const std::string& path);
 std::string read_private_key_file(const std::string& path);
 // Writes `bytes` to `path` atomically: a temp file beside it, fsync, rename. When `exclusive`,
 // refuses (cant_create) if `path` exists. Nothing is left behind on failure.
+// The data is durable when it returns (the fsync: a crash never leaves a named, partial file);
+// the new name is durable once its folder is synced (sync_folders), which callers that write
+// several files do once for all of them.
 void write_file_atomic(const std::string& path, const std::string& bytes, bool exclusive);
+// fsync of the folder holding each of `paths` (each folder once), so the names just linked
+// there survive a crash. Throws io_error naming the folder.
+void sync_folders(const std::vector<std::string>& paths);
 
 }  // namespace sp::report

@@ -1,10 +1,12 @@
 // The streamed store audit: it keeps only the sessions that share a ticket with another one,
-// and writes exactly what the in-memory audit writes (text and JSON).
+// and writes exactly what the in-memory audit writes (text, JSON and the summary PDF); its
+// temporary files hold every field of an item, deflated.
 #include <doctest/doctest.h>
 
 #include <set>
 #include <sstream>
 
+#include "audit/item_codec.h"
 #include "audit/load.h"
 #include "audit/output_stream.h"
 #include "unit/audit_fixture.h"
@@ -42,13 +44,14 @@ std::vector<std::string> shared(const std::vector<AuditItem>& items) {
 }
 
 struct Streamed {
-  std::string out;
+  std::string out, pdf;
   std::size_t kept = 0, spilled = 0;
   AuditResult counts;
 };
 
-Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f) {
-  AuditStreamWriter w(f, false);
+Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f,
+                bool pdf = false) {
+  AuditStreamWriter w(f, false, 50, pdf);
   Auditor a(clean_options());
   a.on_final([&](ItemAudit&& ia) { w.add(std::move(ia)); });
   a.limit_reuse_to(shared(items));
@@ -63,6 +66,7 @@ Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f
   std::ostringstream os;
   w.finish(rep, os);
   s.out = os.str();
+  s.pdf = w.take_pdf();
   s.counts = rep.result;
   return s;
 }
@@ -104,6 +108,7 @@ TEST_CASE("streamed audit output equals the in-memory audit, byte for byte") {
       {"all clean", 60, 0, 0, false},
       {"reuse between a clean and a bad item", 30, 5, 0, true},
       {"no items", 0, 0, 0, false},
+      {"more clean items than the PDF lists", 450, 40, 0, true},
   };
   for (const auto& c : cases) {
     CAPTURE(c.name);
@@ -115,7 +120,70 @@ TEST_CASE("streamed audit output equals the in-memory audit, byte for byte") {
     const AuditReport rep = in_memory(items);
     CHECK(stream(items, AuditStreamWriter::Format::text).out == audit_text(rep, false));
     CHECK(stream(items, AuditStreamWriter::Format::json).out == audit_json(rep).dump(2));
+    // The summary PDF drawn from the same pass (`audit --all --pdf`), beside either output.
+    const std::string pdf = audit_pdf(rep);
+    for (auto f : {AuditStreamWriter::Format::text, AuditStreamWriter::Format::json}) {
+      CAPTURE(static_cast<int>(f));
+      const Streamed s = stream(items, f, true);
+      CHECK(s.pdf == pdf);
+      CHECK(s.out == (f == AuditStreamWriter::Format::text ? audit_text(rep, false)
+                                                          : audit_json(rep).dump(2)));
+    }
   }
+}
+
+TEST_CASE("streamed audit's temporary files hold every field and stay small") {
+  // Every field of an item set, odd values included: the binary form must give them back.
+  ItemAudit ia;
+  ia.index = 4000000000u;
+  ia.source = "store.db#12";
+  ia.claim = std::string("claim \0 with a NUL", 19);
+  ia.kind = ItemKind::report;
+  ia.label = "session 12 at scale ST-3, 2026-10-14";
+  ia.weight_unit = WeightUnit::kg;
+  Finding f;
+  f.code = "off-division";
+  f.severity = Severity::note;
+  f.message = std::string(70000, 'm');
+  f.ticket = "A-1002";
+  f.platform = std::nullopt;
+  f.values = {{"steer", "4 025 lb", 4025.000000000001, "lb"}, {"why", "", std::nullopt, ""}};
+  f.rule = "NIST HB 44 Table 3";
+  ia.findings = {f, f};
+  ia.findings[1].platform = "";
+  ia.findings[1].ticket.reset();
+  std::string rec;
+  encode_item(ia, rec);
+  const ItemAudit back = decode_item(rec);
+  CHECK(audit_text_item(back, true) == audit_text_item(ia, true));
+  CHECK(audit_json_item(back).dump() == audit_json_item(ia).dump());
+  CHECK(back.index == ia.index);
+  CHECK(back.claim == ia.claim);
+  CHECK(back.weight_unit == ia.weight_unit);
+  CHECK(back.findings[0].values[0].number == ia.findings[0].values[0].number);
+  CHECK(!back.findings[1].ticket);
+  CHECK(back.findings[1].platform == std::optional<std::string>(""));
+  CHECK_THROWS_AS(decode_item(std::string_view(rec).substr(0, rec.size() - 1)), sp::Error);
+
+  // Many items with findings: deflated, the files are a fraction of the records, and they read
+  // back in order.
+  std::vector<AuditItem> items = mixed_items(3000, 2, 3);
+  AuditStreamWriter w(AuditStreamWriter::Format::json, false);
+  Auditor a(clean_options());
+  a.on_final([&](ItemAudit&& x) { w.add(std::move(x)); });
+  a.limit_reuse_to({});
+  for (const auto& i : items) a.add(i);
+  AuditReport rep;
+  rep.options = clean_options();
+  rep.trusted_keys = {"d75a 9801 82b1 0ab7"};
+  rep.result = a.finish();
+  CAPTURE(w.temp_raw_bytes());
+  CAPTURE(w.temp_bytes());
+  CHECK(w.spilled() == 3000);
+  std::ostringstream os;
+  w.finish(rep, os);
+  CHECK(w.temp_bytes() * 5 < w.temp_raw_bytes());
+  CHECK(os.str() == audit_json(in_memory(items)).dump(2));
 }
 
 TEST_CASE("store: shared_tickets names the shared tickets, streamed output equals in memory") {
@@ -148,11 +216,12 @@ TEST_CASE("store: shared_tickets names the shared tickets, streamed output equal
       rep.trusted_keys = {"d75a 9801 82b1 0ab7"};
       const std::string want = f == AuditStreamWriter::Format::text ? audit_text(rep, false)
                                                                     : audit_json(rep).dump(2);
-      AuditStreamWriter w(f, false);
+      AuditStreamWriter w(f, false, 50, true);
       std::ostringstream os;
       AuditResult counts = audit_store_streamed(*ts.store, "store.db", one, clean_options(),
                                                 {"d75a 9801 82b1 0ab7"}, w, os);
       CHECK(os.str() == want);
+      CHECK(w.take_pdf() == audit_pdf(rep));
       CHECK(counts.errors == rep.result.errors);
       CHECK(counts.total_items == rep.result.items.size());
       if (!one) {
