@@ -18,7 +18,7 @@ static_assert(sizeof(Finding) == 3 * sizeof(std::string) + 8 +
                                      2 * sizeof(std::optional<std::string>) +
                                      sizeof(std::vector<EvidenceValue>),
               "update item_codec");
-static_assert(sizeof(ItemAudit) == 8 + 3 * sizeof(std::string) + 16 + sizeof(std::vector<Finding>),
+static_assert(sizeof(ItemAudit) == 8 + 4 * sizeof(std::string) + 24 + sizeof(std::vector<Finding>),
               "update item_codec");
 
 template <typename T>
@@ -80,6 +80,8 @@ void encode_item(const ItemAudit& ia, std::string& out) {
   put_str(out, ia.claim);
   put_raw(out, static_cast<std::uint8_t>(ia.kind));
   put_str(out, ia.label);
+  put_raw(out, static_cast<std::uint8_t>(ia.verdict));
+  put_str(out, ia.verdict_reason);
   put_raw(out, static_cast<std::uint8_t>(ia.weight_unit));
   put_raw(out, static_cast<std::uint32_t>(ia.findings.size()));
   for (const auto& f : ia.findings) {
@@ -108,6 +110,8 @@ ItemAudit decode_item(std::string_view bytes) {
   ia.claim = r.str();
   ia.kind = static_cast<ItemKind>(r.raw<std::uint8_t>());
   ia.label = r.str();
+  ia.verdict = static_cast<Verdict>(r.raw<std::uint8_t>());
+  ia.verdict_reason = r.str();
   ia.weight_unit = static_cast<WeightUnit>(r.raw<std::uint8_t>());
   const auto nf = r.raw<std::uint32_t>();
   ia.findings.reserve(nf);
