@@ -267,12 +267,12 @@ class Demo {
       opt.issued_at = last;  // issued as the rig leaves the scale (a fixed, invented time)
       opt.signed_by = d.session.operator_name;
       opt.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
-      const report::IssuedReport rep =
-          report::issue_report(d.session, r, report::session_json(d.session),
-                               report::results_json(r), *signer_, opt);
       const std::string base =
           d.id > 0 ? fmt::format("report-{}-{}", d.id, slug(d.rig))
                    : "report-file-" + slug(fs::path(d.source).stem().string());
+      opt.pdf_name = base + ".pdf";
+      const report::IssuedReport rep = report::issue_report(
+          d.session, r, report::session_json(d.session), report::results_json(r), *signer_, opt);
       d.pdf = join(dir_, "reports/" + base + ".pdf");
       d.sig = d.pdf + ".sig";
       report::write_file_atomic(d.pdf, rep.pdf, true);

@@ -9,16 +9,16 @@
 // A batch is all or nothing: every output name is checked and every session loaded before the
 // first file is written, and on any failure the files already written are removed and nothing
 // is recorded.
-// Same input, same key, same options, same store state -> byte-identical files (no clock unless
-// --issued-at); a batch writes the same bytes as one `report --session N` per session, each run
-// on the store as it was before the batch. A report from the store carries the ledger anchor
-// (the chain's rows and head when issued, and its latest signed checkpoint: record.h), so a
-// report issued after another one was recorded differs from it in the anchor.
-#include <unistd.h>
-
+// Same input, same key, same options, same file name, same store state -> byte-identical files
+// (no clock unless --issued-at; the PDF names itself and its .sig); a batch writes the same
+// bytes as one `report --session N --out report-N.pdf` per session, each run on the store as it
+// was before the batch. A report from the store carries the ledger anchor (the chain's rows and
+// head when issued, and its latest signed checkpoint: record.h), so a report issued after
+// another one was recorded differs from it in the anchor.
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <filesystem>
 #include <iostream>
 #include <set>
 
@@ -207,8 +207,10 @@ void register_report(CLI::App& app, Context& ctx) {
     for (size_t i = 0; i < plan.size(); ++i) {
       const Session& s = sessions[i];
       ReconcileResult result = reconcile(s);
+      report::IssueOptions named = opt;
+      named.pdf_name = std::filesystem::path(plan[i].pdf).filename().string();
       report::IssuedReport rep = report::issue_report(s, result, report::session_json(s),
-                                                      report::results_json(result), *signer, opt);
+                                                      report::results_json(result), *signer, named);
       written.write(plan[i].pdf, rep.pdf);
       written.write(plan[i].sig, rep.pdf_signature);
       if (db) rows.push_back(report_row(plan[i].session, rep, *o, opt));

@@ -26,6 +26,7 @@ IssuedReport issue_report(const Session& session, const ReconcileResult& result,
   in.paper = options.paper;
   in.font_dir = options.font_dir;
   in.reserve_signature = true;
+  in.pdf_name = options.pdf_name;
   out.pdf = render_report_pdf(in);
   std::optional<std::int64_t> signed_at;
   if (options.issued_at) signed_at = iso_utc_seconds(*options.issued_at);

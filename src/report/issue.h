@@ -31,6 +31,9 @@ struct IssueOptions {
   std::string software;                  // "scaleproof X.Y.Z"
   std::string font_dir = "/usr/share/fonts/truetype/dejavu";
   std::optional<LedgerAnchor> ledger;    // the store's head when issued; none from a file
+  // The PDF's file name (no folder), printed in its signature block with the detached
+  // signature's name, pdf_name + ".sig"; so the bytes depend on it.
+  std::string pdf_name = "report.pdf";
 };
 
 struct IssuedReport {

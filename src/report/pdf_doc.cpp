@@ -18,6 +18,7 @@
 #include "core/embedded.h"
 #include "core/error.h"
 #include "report/hpdf_signature.h"
+#include "report/to_unicode.h"
 #include "report/winansi.h"
 
 namespace sp::report {
@@ -286,7 +287,10 @@ class HpdfDocument : public PdfDocument {
   HPDF_Font font_for(Font font, const TextRun& run) {
     Face& face = faces_[index(font)];
     if (run.kind == TextRun::Kind::unicode) {
-      if (face.utf8 == nullptr) face.utf8 = get_font(load(face.path), "UTF-8", face.path);
+      if (face.utf8 == nullptr) {
+        face.utf8 = get_font(load(face.path), "UTF-8", face.path);
+        replace_to_unicode(face.utf8, face.path);
+      }
       return face.utf8;
     }
     if (face.single == nullptr) {
@@ -302,6 +306,22 @@ class HpdfDocument : public PdfDocument {
       face.single = get_font(load(write_temp("." + file, bytes, "font")), "WinAnsiEncoding", file);
     }
     return face.single;
+  }
+  // libharu gives a UTF-8 Type0 font its encoder's code-to-CID CMap as /ToUnicode, which no
+  // reader accepts (report/to_unicode.h). The stream object stays where libharu put it (it
+  // also sets its filter before writing); only its contents and the encoding CMap's keys go.
+  void replace_to_unicode(HPDF_Font font, const std::string& what) {
+    auto* cmap = static_cast<HPDF_Dict>(HPDF_Dict_GetItem(font, "ToUnicode", HPDF_OCLASS_DICT));
+    if (cmap == nullptr || cmap->stream == nullptr) {
+      throw Error(ExitCode::internal, "libharu: " + what + " (UTF-8) has no ToUnicode stream");
+    }
+    HPDF_MemStream_FreeData(cmap->stream);
+    for (const char* key : {"Type", "CMapName", "CIDSystemInfo", "WMode"})
+      HPDF_Dict_RemoveElement(cmap, key);
+    const std::string& text = identity_to_unicode_cmap();
+    HPDF_Stream_Write(cmap->stream, reinterpret_cast<const HPDF_BYTE*>(text.data()),
+                      static_cast<HPDF_UINT>(text.size()));
+    check("writing the ToUnicode CMap of " + what);
   }
   const char* load(const std::string& path) {
     const char* name = HPDF_LoadTTFontFromFile(pdf_, path.c_str(), HPDF_TRUE);

@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "core/error.h"
+#include "engine/result.h"
 #include "report/signer.h"
 
 namespace sp::report {
@@ -45,8 +46,62 @@ bool numbers_agree(double a, double b) {
   return std::fabs(a - b) <= kRecomputeTolerance * scale;
 }
 
+// How results are compared: strictly, or as results from before the verdict (record.h).
+struct Mode {
+  bool legacy = false;
+};
+
+// Free text of a pre-verdict result, reworded since: never compared.
+bool legacy_wording(const std::string& key) {
+  return key == "message" || key == "label" || key == "note" || key == "unsolved";
+}
+
+// A flag as a legacy comparison sees it: everything but its wording.
+nlohmann::json flag_identity(const nlohmann::json& f) {
+  nlohmann::json id = nlohmann::json::object();
+  if (!f.is_object()) return f;
+  for (const char* k : {"code", "severity", "ticket", "platform", "field", "needed"}) {
+    if (f.contains(k)) id[k] = f.at(k);
+  }
+  return id;
+}
+
+bool same_flag(const nlohmann::json& a, const nlohmann::json& b);
+
 void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string& path,
-             std::vector<std::string>& out, std::size_t max_lines) {
+             std::vector<std::string>& out, std::size_t max_lines, Mode mode);
+
+// Legacy flags: each stated flag is raised again; a recomputed flag the record lacks is a
+// difference unless it is of a kind added since (rating-over).
+void compare_legacy_flags(const nlohmann::json& a, const nlohmann::json& b, const std::string& path,
+                          std::vector<std::string>& out, std::size_t max_lines) {
+  std::vector<bool> used(b.size(), false);
+  for (std::size_t i = 0; i < a.size() && out.size() < max_lines; ++i) {
+    bool found = false;
+    for (std::size_t k = 0; k < b.size() && !found; ++k) {
+      if (!used[k] && same_flag(a[i], b[k])) used[k] = found = true;
+    }
+    if (!found)
+      out.push_back(path + "[" + std::to_string(i) + "]: record " + flag_identity(a[i]).dump() +
+                    ", not recomputed");
+  }
+  for (std::size_t k = 0; k < b.size() && out.size() < max_lines; ++k) {
+    const bool added_since = b[k].is_object() && b[k].value("code", "") == kRatingOverFlag;
+    if (!used[k] && !added_since) {
+      out.push_back(path + ": recomputed " + flag_identity(b[k]).dump() +
+                    ", missing from the record");
+    }
+  }
+}
+
+bool same_flag(const nlohmann::json& a, const nlohmann::json& b) {
+  std::vector<std::string> diffs;
+  compare(flag_identity(a), flag_identity(b), "", diffs, 1, Mode{false});
+  return diffs.empty();
+}
+
+void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string& path,
+             std::vector<std::string>& out, std::size_t max_lines, Mode mode) {
   if (out.size() >= max_lines) return;
   if (a.is_number() && b.is_number()) {
     if (!numbers_agree(a.get<double>(), b.get<double>())) {
@@ -60,12 +115,18 @@ void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string
   }
   if (a.is_object()) {
     for (auto it = a.begin(); it != a.end(); ++it) {
+      const std::string at = path + "." + it.key();
+      if (mode.legacy && legacy_wording(it.key())) continue;
       if (!b.contains(it.key())) {
-        out.push_back(path + "." + it.key() + ": in the record, not recomputed");
+        out.push_back(at + ": in the record, not recomputed");
+      } else if (mode.legacy && it.key() == "flags" && it->is_array() &&
+                 b.at(it.key()).is_array()) {
+        compare_legacy_flags(*it, b.at(it.key()), at, out, max_lines);
       } else {
-        compare(*it, b.at(it.key()), path + "." + it.key(), out, max_lines);
+        compare(*it, b.at(it.key()), at, out, max_lines, mode);
       }
     }
+    if (mode.legacy) return;  // keys added since are not held against an old record
     for (auto it = b.begin(); it != b.end(); ++it) {
       if (!a.contains(it.key()))
         out.push_back(path + "." + it.key() + ": recomputed, missing from the record");
@@ -77,7 +138,7 @@ void compare(const nlohmann::json& a, const nlohmann::json& b, const std::string
       return;
     }
     for (std::size_t i = 0; i < a.size(); ++i) {
-      compare(a[i], b[i], path + "[" + std::to_string(i) + "]", out, max_lines);
+      compare(a[i], b[i], path + "[" + std::to_string(i) + "]", out, max_lines, mode);
     }
   } else if (a != b) {
     out.push_back(path + ": record " + a.dump() + ", recomputed " + b.dump());
@@ -215,7 +276,8 @@ nlohmann::json results_as_format1(const nlohmann::json& recomputed, const nlohma
 std::vector<std::string> compare_results(const nlohmann::json& stated,
                                          const nlohmann::json& recomputed, std::size_t max_lines) {
   std::vector<std::string> out;
-  compare(normalised(stated, "$"), normalised(recomputed, "$"), "$", out, max_lines);
+  const Mode mode{stated.is_object() && !stated.contains("verdict")};
+  compare(normalised(stated, "$"), normalised(recomputed, "$"), "$", out, max_lines, mode);
   return out;
 }
 

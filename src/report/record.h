@@ -83,6 +83,13 @@ nlohmann::json build_record(const nlohmann::json& session, const nlohmann::json&
 // or build, where the last bits of a least-squares solution can differ (common practice for
 // comparing floating-point results). Everything else must be equal. Returns one line per
 // difference, as "$.tongue_load.value: record 812.5, recomputed 790.1"; empty when all agree.
+//
+// Results stated without a "verdict" come from software before results led with one (issue
+// 12), whose records must still verify. They are compared on what they state: every key they
+// hold must be recomputed, every number must agree, and every flag they list must be raised
+// again (same code, severity, ticket, platform, field, needed); what was added since is not
+// held against them (keys they lack, `rating-over` flags), nor is wording that has been
+// reworded since (flag messages, rating labels, notes, unsolved lines).
 inline constexpr double kRecomputeTolerance = 1e-6;
 std::vector<std::string> compare_results(const nlohmann::json& stated,
                                          const nlohmann::json& recomputed,

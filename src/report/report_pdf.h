@@ -1,12 +1,17 @@
 // Renders the weigh-report PDF from a session, its results and its signed weigh record.
 //
-// Pages, in order: header (report id, station, scale, operator, rig), scale tickets (voided
+// Pages, in order: title, then the verdict (result.h: its words, reason and meaning, and which
+// figures are 2u), header (report id, station, scale, operator, rig), scale tickets (voided
 // passes struck with their reason), results with ± expanded uncertainty (k = 2), geometry
-// entered vs back-solved, checks (fit test in words, flags), ratings table, charts (axle loads
-// against bar moment; side-view sketch), recommendation, cautions (reports/cautions.json, on
-// every report), signature block. The record (canonical JSON) and its raw 64-byte signature are
+// entered vs back-solved (a length its flag says does not fit is shown so), checks (fit test
+// in words, flags), ratings table, the re-solve without the value a failed fit names (when
+// there is one), charts (axle loads against bar moment, ball hitches only; side-view sketch),
+// recommendation (marked provisional when the result says so), cautions
+// (reports/cautions.json, on every report), signature block. A fifth wheel's report uses the
+// wording's "couplings.fifth-wheel" words (report_text.h). The record (canonical JSON) and its raw 64-byte signature are
 // embedded as the attachments "weigh-record.json" and "weigh-record.sig".
-// Deterministic: identical arguments give identical bytes. Throws sp::Error.
+// Deterministic: identical arguments (the file name included) give identical bytes. Throws
+// sp::Error.
 #pragma once
 #include <nlohmann/json.hpp>
 #include <string>
@@ -30,6 +35,7 @@ struct RenderInput {
   // Reserve the in-file signature (report/pdf_signature.h), to be filled by sign_pdf_in_place;
   // its /M is the record's issued_at.
   bool reserve_signature = false;
+  std::string pdf_name = "report.pdf";  // the file's name, no folder (signature block)
 };
 
 std::string render_report_pdf(const RenderInput& in);

@@ -60,9 +60,12 @@ double ReportText::number(const std::string& dotted) const {
   return v.get<double>();
 }
 
-ReportText load_report_text() {
-  return {parse_embedded("wording.json"), parse_embedded("cautions.json"),
-          parse_embedded("layout.json")};
+ReportText load_report_text(const std::string& coupling) {
+  ReportText t{parse_embedded("wording.json"), parse_embedded("cautions.json"),
+               parse_embedded("layout.json")};
+  const nlohmann::json& couplings = walk(t.wording, "couplings");
+  if (couplings.contains(coupling)) t.wording.merge_patch(couplings.at(coupling));
+  return t;
 }
 
 std::string fill(std::string pattern, const std::vector<std::pair<std::string, std::string>>& values) {

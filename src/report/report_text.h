@@ -20,8 +20,11 @@ struct ReportText {
   double number(const std::string& dotted) const;              // from layout
 };
 
-// Loads the embedded reports/*.json (parsed once per call; cheap).
-ReportText load_report_text();
+// Loads the embedded reports/*.json (parsed once per call; cheap). `coupling` is the trailer
+// type's name (core/model.h to_string(TrailerType)): the wording's "couplings.<coupling>"
+// object, when there is one, is merged over the rest (RFC 7386 merge patch), so a fifth wheel
+// reads "pin load" and "kingpin" wherever a ball hitch reads "tongue load" and "hitch ball".
+ReportText load_report_text(const std::string& coupling = "conventional");
 
 // Replaces "{name}" in `pattern` by the values given (pairs of name, value).
 std::string fill(std::string pattern, const std::vector<std::pair<std::string, std::string>>& values);

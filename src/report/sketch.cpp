@@ -3,6 +3,7 @@
 #include <algorithm>
 
 #include "report/charts.h"
+#include "report/pages.h"
 
 namespace sp::report {
 namespace {
@@ -47,33 +48,57 @@ void draw_rig_sketch(Flow& flow, const Session& s, const ReconcileResult& r, int
   float ground = top - h * 0.55f, wheel_r = 11;
   float xs = X(0), xd = X(WB), xb = X(WB + o), xt = X(WB + o + L);
 
-  // Tow vehicle: body and cab, wheels on the ground.
+  // Tow vehicle: body and cab, wheels on the ground; a fifth wheel's truck has its bed past
+  // the drive axle, under the trailer's nose.
+  const bool fifth = s.trailer.type == TrailerType::fifth_wheel;
   float body_bot = ground + wheel_r * 1.2f, body_top = body_bot + 26;
-  doc.rect(X(-front), body_bot, X(WB + std::max(o, 0.0) * 0.6) - X(-front), body_top - body_bot, 0.8f, band);
+  const double body_end = fifth ? WB + std::max(o, 0.0) + 0.12 * WB : WB + std::max(o, 0.0) * 0.6;
+  doc.rect(X(-front), body_bot, X(body_end) - X(-front), body_top - body_bot, 0.8f, band);
   doc.polygon({X(-front * 0.2), body_top, X(-front * 0.05), body_top + 20, X(WB * 0.45), body_top + 20,
                X(WB * 0.5), body_top},
               0.8f, band);
-  // Trailer: box over its axle, tongue down to the ball.
+  // Trailer: box over its axle; a ball-hitch trailer's tongue runs down to the ball, a fifth
+  // wheel's nose rides over the bed on its kingpin.
   float tr_bot = ground + wheel_r * 1.4f, tr_top = tr_bot + 58;
   float box_l = X(WB + o + L * 0.25);
   doc.rect(box_l, tr_bot, X(WB + o + L + tail) - box_l, tr_top - tr_bot, 0.8f, 1);
-  doc.line(xb, body_bot + 6, box_l, tr_bot + 6, 1.2f);
-  doc.circle(xb, body_bot + 6, 3, 0.8f, 0);
+  const float couple_y = fifth ? body_top : body_bot + 6;  // where the load passes
+  if (fifth) {
+    const float nose_bot = body_top + 8, nose_l = xb - 28;
+    doc.rect(nose_l, nose_bot, box_l - nose_l, tr_top - nose_bot, 0.8f, 1);
+    doc.line(xb, nose_bot, xb, couple_y, 1.2f);
+  } else {
+    doc.line(xb, couple_y, box_l, tr_bot + 6, 1.2f);
+  }
+  doc.circle(xb, couple_y, 3, 0.8f, 0);
   for (float x : {xs, xd}) doc.circle(x, ground + wheel_r, wheel_r, 0.8f, 0.35f);
   doc.circle(xt - wheel_r * 1.1f, ground + wheel_r, wheel_r, 0.8f, 0.35f);
   doc.circle(xt + wheel_r * 1.1f, ground + wheel_r, wheel_r, 0.8f, 0.35f);
   doc.line(flow.left(), ground, flow.left() + flow.width(), ground, 0.6f);
 
-  // Loads of the travel pass (fitted), else the tow vehicle alone.
+  // Loads of the travel pass (fitted), as the note under the sketch says. A tensioned pass
+  // has them with uncertainties; a hitched one (a fifth wheel's, or a rig weighed without
+  // tensioning) has its fitted readings, shown without ±, and carries the slack tongue (pin)
+  // load. Never the tow vehicle alone: that is not the rig as it travels.
   std::optional<Estimate> st, dr, trl, ball;
   for (const auto& tr : r.tensioned) {
-    if (tr.ticket == r.travel_pass || (!st && &tr == &r.tensioned.back())) {
+    if (tr.ticket == r.travel_pass)
       st = tr.steer, dr = tr.drive, trl = tr.trailer, ball = tr.ball_load;
-    }
   }
-  if (!st && r.tow_steer) st = r.tow_steer, dr = r.tow_drive;
+  if (!st && !r.travel_pass.empty()) {
+    for (const MeasurementFit& m : r.measurements) {
+      if (m.ticket != r.travel_pass || !m.platform) continue;
+      std::optional<Estimate>& slot = *m.platform == "steer"   ? st
+                                      : *m.platform == "drive" ? dr
+                                                               : trl;
+      slot = Estimate{m.fitted, 0};
+    }
+    ball = r.tongue_load;
+  }
   auto load = [&](const std::optional<Estimate>& e, const std::string& key) {
-    return t.get("charts." + key) + " " + (e ? fmt_number(e->value, wd) + " \u00b1 " + fmt_expanded(e->u, wd) : "—");
+    std::string v = "—";
+    if (e) v = fmt_number(e->value, wd) + (e->u > 0 ? " \u00b1 " + fmt_expanded(e->u, wd) : "");
+    return t.get("charts." + key) + " " + v;
   };
   float arrow_tip = ground - 2;
   up_arrow(doc, xs, arrow_tip, 16);
@@ -87,19 +112,25 @@ void draw_rig_sketch(Flow& flow, const Session& s, const ReconcileResult& r, int
     doc.text(tx, ly, txt, small, Font::bold);
   }
   if (ball) {
-    down_arrow(doc, xb, body_bot + 10, 22);
+    // Above the coupling: over the ball, or over the fifth wheel's nose.
+    const float label_y = fifth ? tr_top + 6 : body_bot + 36;
+    if (!fifth) down_arrow(doc, xb, couple_y + 4, 22);
     std::string txt = load(ball, "ball");
-    doc.text(xb - doc.text_width(txt, small) / 2, body_bot + 36, txt, small, Font::bold);
+    doc.text(xb - doc.text_width(txt, small) / 2, label_y, txt, small, Font::bold);
   }
   // Dimensions: solved ± (entered).
   float dy = ly - 18;
-  auto len = [&](const LengthEstimate& e) {
-    return fmt_number(e.value, 1) + " \u00b1 " + fmt_expanded(e.u, 1) + " " + lu + " (" + t.get("charts.entered") +
-           " " + fmt_number(e.entered, 1) + ")";
+  // A length whose flag says it does not fit is labelled so, in the flag's words (the
+  // drawing keeps its entered proportions).
+  auto len = [&](const LengthEstimate& e, const char* field) {
+    const std::string entered =
+        " (" + t.get("charts.entered") + " " + fmt_number(e.entered, 1) + ")";
+    if (const Flag* f = length_flag(r, field)) return disagreeing_length(t, *f, lu) + entered;
+    return fmt_number(e.value, 1) + " \u00b1 " + fmt_expanded(e.u, 1) + " " + lu + entered;
   };
   dimension(doc, xs, xd, dy, "WB " + fmt_number(WB, 1) + " " + lu, small);
-  dimension(doc, xd, xb, dy - 16, "o " + len(*r.rear_axle_to_ball), small);
-  dimension(doc, xb, xt, dy, "L " + len(*r.ball_to_axle), small);
+  dimension(doc, xd, xb, dy - 16, "o " + len(*r.rear_axle_to_ball, "rear_axle_to_ball"), small);
+  dimension(doc, xb, xt, dy, "L " + len(*r.ball_to_axle, "ball_to_axle"), small);
   flow.paragraph(fill(t.get("charts.sketch_note"), {{"unit", wu}, {"ticket", r.travel_pass}}), Font::regular,
                  static_cast<float>(t.number("greys.muted")));
 }

@@ -20,10 +20,12 @@ done
 [ "$(grep -c '^signed with key ' out)" = 1 ] || fail "expected one key line: $(cat out)"
 cp out batch.out
 for n in 1 2 3; do
+  # Same file name as the batch gives it (the PDF prints its own name and its .sig's), on the
+  # store as it was before the batch (the report carries the ledger anchor).
   cp "$WORK/before-batch.db" "$WORK/single-$n.db"
-  expect_exit 0 "$SCALEPROOF" --db "$WORK/single-$n.db" report --session "$n" --key station.key --out "single/$n.pdf" --signed-by "Ilse Varga"
-  cmp -s "batch/report-$n.pdf" "single/$n.pdf" || fail "session $n: batch PDF differs from the single run"
-  cmp -s "batch/report-$n.pdf.sig" "single/$n.pdf.sig" || fail "session $n: batch signature differs"
+  expect_exit 0 "$SCALEPROOF" --db "$WORK/single-$n.db" report --session "$n" --key station.key --out "single/report-$n.pdf" --signed-by "Ilse Varga"
+  cmp -s "batch/report-$n.pdf" "single/report-$n.pdf" || fail "session $n: batch PDF differs from the single run"
+  cmp -s "batch/report-$n.pdf.sig" "single/report-$n.pdf.sig" || fail "session $n: batch signature differs"
   expect_exit 0 "$SCALEPROOF" verify "batch/report-$n.pdf" --pubkey station.pub.pem
   id="$(sed -n "s|^report \(SP-[0-9a-f]*\) written to batch/report-$n.pdf .*|\1|p" batch.out)"
   [ -n "$id" ] || fail "no report id for session $n in: $(cat batch.out)"

@@ -64,7 +64,9 @@ TEST_CASE("record carries format, key and a content-derived id") {
 }
 
 TEST_CASE("compare_results tolerates last-bit noise and names real differences") {
-  json stated = json::parse(R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})");
+  // Results with a verdict (issue 12 on) are compared strictly.
+  json stated = json::parse(
+      R"({"verdict":"compliant","tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})");
   struct Case {
     const char* what;
     const char* recomputed;
@@ -72,16 +74,27 @@ TEST_CASE("compare_results tolerates last-bit noise and names real differences")
     const char* names;
   };
   const Case cases[] = {
-      {"identical", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})", 0, ""},
-      {"within 1e-6 relative", R"({"tongue_load":{"value":1000.0000001,"u":15.0},"flags":[{"code":"a"}],"x":null})", 0, ""},
-      {"value changed", R"({"tongue_load":{"value":1010.0,"u":15.0},"flags":[{"code":"a"}],"x":null})", 1,
-       "$.tongue_load.value"},
-      {"flag changed", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"b"}],"x":null})", 1,
-       "$.flags[0].code"},
-      {"extra flag", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"},{"code":"b"}],"x":null})", 1,
-       "$.flags"},
-      {"null became number", R"({"tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":3})", 1, "$.x"},
-      {"key missing", R"({"tongue_load":{"value":1000.0},"flags":[{"code":"a"}],"x":null})", 1, "$.tongue_load.u"},
+      {"identical",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":null})",
+       0, ""},
+      {"within 1e-6 relative",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0000001,"u":15.0},"flags":[{"code":"a"}],"x":null})",
+       0, ""},
+      {"value changed",
+       R"({"verdict":"compliant","tongue_load":{"value":1010.0,"u":15.0},"flags":[{"code":"a"}],"x":null})",
+       1, "$.tongue_load.value"},
+      {"flag changed",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"b"}],"x":null})",
+       1, "$.flags[0].code"},
+      {"extra flag",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"},{"code":"b"}],"x":null})",
+       1, "$.flags"},
+      {"null became number",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0,"u":15.0},"flags":[{"code":"a"}],"x":3})",
+       1, "$.x"},
+      {"key missing",
+       R"({"verdict":"compliant","tongue_load":{"value":1000.0},"flags":[{"code":"a"}],"x":null})",
+       1, "$.tongue_load.u"},
   };
   for (const Case& c : cases) {
     CAPTURE(c.what);
@@ -113,4 +126,60 @@ TEST_CASE("the ledger anchor is part of the signed record and reads back") {
   // Format 1 records have no "ledger"; a malformed one is a data error.
   CHECK_FALSE(record_ledger(json{{"format", kRecordFormatV1}}).has_value());
   CHECK_THROWS_AS(record_ledger(json{{"ledger", {{"rows", "x"}}}}), sp::Error);
+}
+
+TEST_CASE("compare_results: results from before the verdict are compared on what they state") {
+  // Records issued before results carried a verdict must still verify (issue 12): their numbers
+  // and flags are checked, what was added since and the wording reworded since are not.
+  const json stated = json::parse(R"({"tongue_load":{"value":1000.0,"u":15.0},
+      "flags":[{"code":"geometry-mismatch","severity":"error","field":"ball_to_axle","needed":224.1,
+                "message":"old words"}],
+      "compliance":[{"rating":"gvwr","label":"old label","value":7421.0}],
+      "unsolved":["old line"],"target":{"note":"old note","setting":{"value":3.0,"u":0.05}}})");
+  const std::string now =
+      R"({"verdict":"not-proven","verdict_reason":"r","tongue_load":{"value":1000.0,"u":15.0},
+      "flags":[FLAGS],
+      "compliance":[{"rating":"gvwr","label":"new label","value":VALUE}],
+      "unsolved":["new line","another"],
+      "target":{"note":"new note","setting":{"value":3.0,"u":0.05},"provisional":true},"if_excluded":null})";
+  const std::string mismatch =
+      R"({"code":"geometry-mismatch","severity":"error","field":"ball_to_axle","needed":224.1,"message":"new words"})";
+  const std::string over =
+      R"({"code":"rating-over","severity":"error","rating":"gvwr","message":"m"})";
+  struct Case {
+    const char* what;
+    std::string flags, value;
+    std::size_t differences;
+    const char* names;
+  };
+  const Case cases[] = {
+      {"new keys, new wording, a rating-over flag added", mismatch + "," + over, "7421.0", 0, ""},
+      {"same flags in another order", over + "," + mismatch, "7421.0", 0, ""},
+      {"a number changed", mismatch, "7500.0", 1, "$.compliance[0].value"},
+      {"the stated flag is not raised again", over, "7421.0", 1, "$.flags[0]"},
+      {"another flag is raised", mismatch + R"(,{"code":"weight-drift","severity":"warning"})",
+       "7421.0", 1, "weight-drift"},
+      {"the flag names another length",
+       R"({"code":"geometry-mismatch","severity":"error","field":"rear_axle_to_ball","needed":224.1})",
+       "7421.0", 2, "$.flags[0]"},
+  };
+  for (const Case& c : cases) {
+    CAPTURE(c.what);
+    std::string text = now;
+    text.replace(text.find("FLAGS"), 5, c.flags);
+    text.replace(text.find("VALUE"), 5, c.value);
+    auto diffs = compare_results(stated, json::parse(text));
+    CAPTURE(json(diffs).dump());
+    CHECK(diffs.size() == c.differences);
+    if (!diffs.empty()) CHECK(diffs[0].find(c.names) != std::string::npos);
+  }
+  // A key the old record holds must still be recomputed.
+  std::string text = now;
+  text.replace(text.find("FLAGS"), 5, mismatch);
+  text.replace(text.find("VALUE"), 5, "7421.0");
+  json lacking = json::parse(text);
+  lacking.erase("tongue_load");
+  auto diffs = compare_results(stated, lacking);
+  REQUIRE(diffs.size() == 1);
+  CHECK(diffs[0] == "$.tongue_load: in the record, not recomputed");
 }
