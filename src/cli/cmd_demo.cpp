@@ -13,15 +13,15 @@
 // planted errors (demo.json "expect") must be named where they were planted, every report
 // must verify and the chain must be intact; otherwise it exits 1.
 // Exit: 0 done; 1 a self-check failed; 73 DIR not empty / cannot be created.
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cctype>
 #include <filesystem>
 #include <iostream>
 #include <memory>
-#include <sstream>
-
-#include <fmt/format.h>
 #include <nlohmann/json.hpp>
+#include <sstream>
 
 #include "audit/audit.h"
 #include "audit/calendar.h"
@@ -36,6 +36,7 @@
 #include "report/key_files.h"
 #include "report/recompute.h"
 #include "report/signer.h"
+#include "report/trust.h"
 #include "report/verify.h"
 #include "store/importers.h"
 #include "store/store.h"
@@ -54,12 +55,15 @@ std::string_view demo_file(const std::string& name) {
                                       " (rebuild scaleproof after changing data-demo/)");
 }
 
-std::string join(const fs::path& a, const std::string& b) { return (a / b).string(); }
+std::string join(const fs::path& a, const std::string& b) {
+  return (a / b).string();
+}
 
 void make_dir(const fs::path& p) {
   std::error_code ec;
   fs::create_directories(p, ec);
-  if (ec) throw Error(ExitCode::cant_create, p.string() + ": cannot create the folder: " + ec.message());
+  if (ec)
+    throw Error(ExitCode::cant_create, p.string() + ": cannot create the folder: " + ec.message());
 }
 
 // File names from rig names: letters, digits and '-' only.
@@ -83,7 +87,7 @@ std::string flags_line(const ReconcileResult& r) {
   std::string s;
   for (const Flag& f : r.flags) {
     if (f.severity == Severity::note) continue;
-    std::string where = f.rating ? *f.rating
+    std::string where = f.rating   ? *f.rating
                         : f.ticket ? *f.ticket + (f.platform ? " " + *f.platform : "")
                                    : f.field.value_or("");
     s += (s.empty() ? "" : ", ") + f.code + (where.empty() ? "" : " (" + where + ")");
@@ -131,15 +135,17 @@ class Demo {
     std::error_code ec;
     if (fs::exists(dir_, ec) && !fs::is_empty(dir_, ec))
       throw Error(ExitCode::cant_create,
-                  out_ + ": exists and is not empty; the demo builds a fresh store: remove it or "
-                         "pass --out NEW-FOLDER");
+                  out_ +
+                      ": exists and is not empty; the demo builds a fresh store: remove it or "
+                      "pass --out NEW-FOLDER");
     for (const char* sub : {"", "keys", "reports", "data-demo"}) make_dir(dir_ / sub);
     for (const auto& f : embedded::demo_files()) {
       const fs::path p = dir_ / "data-demo" / std::string(f.name);
       make_dir(p.parent_path());
       report::write_file_atomic(p.string(), std::string(f.contents), true);
     }
-    say(fmt::format("scaleproof demo: an invented scenario at \"{}\" (every name, vehicle and "
+    say(
+        fmt::format("scaleproof demo: an invented scenario at \"{}\" (every name, vehicle and "
                     "ticket is made up)\n",
                     manifest_.at("station").get<std::string>()));
     say(fmt::format("1. scenario files copied to {}", join(dir_, "data-demo/")));
@@ -238,7 +244,8 @@ class Demo {
     }
     txn.commit();
     for (DemoSession& d : file_only_) sessions_.push_back(std::move(d));
-    say(fmt::format("2. ticket store {}: scale {} with {} inspections, {} rigs, {} sessions "
+    say(
+        fmt::format("2. ticket store {}: scale {} with {} inspections, {} rigs, {} sessions "
                     "({} from session files, {} passes from CSV), all closed",
                     db_path_, sc.at("id").get<std::string>(), sc.at("inspections").size(),
                     manifest_.at("rigs").size(), sessions_.size(), manifest_.at("sessions").size(),
@@ -251,9 +258,27 @@ class Demo {
                                       keys_.private_path);
     verifier_ =
         report::verifier_from_pem(report::read_file_bytes(keys_.public_path), keys_.public_path);
-    say(fmt::format("3. station key made just now: {} (private, mode 0600) and {}\n"
-                    "   fingerprint {}",
-                    keys_.private_path, keys_.public_path, keys_.fingerprint));
+    // The insurer trusts the station's key through a trust file (report/trust.h), as it would
+    // in practice: the entry names the station and the key's validity. The bounds are invented
+    // to cover the demo's fixed issue times (October 2026) and its audit (November 2026).
+    report::TrustEntry e;
+    e.source = keys_.public_path;
+    e.fingerprint = keys_.fingerprint;
+    e.station = manifest_.at("station").get<std::string>();
+    e.valid_from = "2026-01-01T00:00:00Z";
+    e.valid_to = "2027-01-01T00:00:00Z";
+    trust_path_ = join(dir_, "keys/insurer.trust.toml");
+    report::write_file_atomic(trust_path_,
+                              std::string("# Keys the insurer accepts (") + report::kTrustFormat +
+                                  "; reports/VERIFY.md). Invented demo data.\nformat = \"" +
+                                  report::kTrustFormat + "\"\n\n" + report::trust_entry_text(e),
+                              true);
+    say(
+        fmt::format("3. station key made just now: {} (private, mode 0600) and {}\n"
+                    "   fingerprint {}\n"
+                    "   the insurer's trust file {} accepts it from {} to {}",
+                    keys_.private_path, keys_.public_path, keys_.fingerprint, trust_path_,
+                    *e.valid_from, *e.valid_to));
   }
 
   void issue_reports() {
@@ -267,9 +292,8 @@ class Demo {
       opt.issued_at = last;  // issued as the rig leaves the scale (a fixed, invented time)
       opt.signed_by = d.session.operator_name;
       opt.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
-      const std::string base =
-          d.id > 0 ? fmt::format("report-{}-{}", d.id, slug(d.rig))
-                   : "report-file-" + slug(fs::path(d.source).stem().string());
+      const std::string base = d.id > 0 ? fmt::format("report-{}-{}", d.id, slug(d.rig))
+                                        : "report-file-" + slug(fs::path(d.source).stem().string());
       opt.pdf_name = base + ".pdf";
       const report::IssuedReport rep = report::issue_report(
           d.session, r, report::session_json(d.session), report::results_json(r), *signer_, opt);
@@ -278,17 +302,16 @@ class Demo {
       report::write_file_atomic(d.pdf, rep.pdf, true);
       report::write_file_atomic(d.sig, rep.pdf_signature, true);
       if (d.id > 0) record(d, rep, opt, last);
-      std::string fit = r.fit ? fmt::format("fit {} (chi-square {:.1f}, dof {})",
-                                            r.fit->passed ? "passed" : "FAILED",
-                                            r.fit->chi_square, r.fit->dof)
-                              : "no fit test";
+      std::string fit =
+          r.fit ? fmt::format("fit {} (chi-square {:.1f}, dof {})",
+                              r.fit->passed ? "passed" : "FAILED", r.fit->chi_square, r.fit->dof)
+                : "no fit test";
       say(fmt::format("   session {} {:<5} {:<40} {:<10} {}; {}", d.id, d.rig, d.source,
                       to_string(r.verdict), fit, flags_line(r)));
       for (const json& e : manifest_.at("expect"))
-        if ("data-demo/" + e.at("session").get<std::string>() == d.source &&
-            !expectation_met(e, r))
-          fail(fmt::format("{}: expected the planted error to be named ({}), it was not",
-                           d.source, e.dump()));
+        if ("data-demo/" + e.at("session").get<std::string>() == d.source && !expectation_met(e, r))
+          fail(fmt::format("{}: expected the planted error to be named ({}), it was not", d.source,
+                           e.dump()));
     }
   }
 
@@ -314,7 +337,8 @@ class Demo {
       opt.station_key = verifier_.get();
       opt.detached_signature = report::read_file_bytes(d.sig);
       opt.recompute = report::recompute_results;
-      const report::VerifyResult v = report::verify_report_bytes(report::read_file_bytes(d.pdf), opt);
+      const report::VerifyResult v =
+          report::verify_report_bytes(report::read_file_bytes(d.pdf), opt);
       int passed = 0;
       for (const auto& c : v.checks) passed += c.status == report::CheckStatus::passed;
       if (v.all_hold()) {
@@ -331,7 +355,7 @@ class Demo {
     audit::AuditOptions opt;
     opt.now = audit::parse_date_time(a.at("audit_time").get<std::string>())->utc_seconds;
     opt.claim_date = a.at("claim_date").get<std::string>();
-    const auto trusted = audit::load_trusted_keys({keys_.public_path});
+    const auto trusted = audit::load_trusted_keys({trust_path_});
     opt.trust_list_given = true;
     audit::Auditor auditor(opt);
     audit::AuditReport rep;
@@ -350,11 +374,11 @@ class Demo {
     audit_pdf_ = join(dir_, "audit-summary.pdf");
     report::write_file_atomic(audit_txt_, audit::audit_text(rep, false), true);
     report::write_file_atomic(audit_pdf_, audit::audit_pdf(rep), true);
-    say(fmt::format("6. audit of {} as an insurer runs it (claim date {}): {} items, {} errors, "
-                    "{} warnings, {} notes, {} clean",
-                    join(dir_, "reports/"), *opt.claim_date, rep.result.items.size(),
-                    rep.result.errors, rep.result.warnings, rep.result.notes,
-                    rep.result.clean_items));
+    say(fmt::format(
+        "6. audit of {} as an insurer runs it (claim date {}): {} items, {} errors, "
+        "{} warnings, {} notes, {} clean",
+        join(dir_, "reports/"), *opt.claim_date, rep.result.items.size(), rep.result.errors,
+        rep.result.warnings, rep.result.notes, rep.result.clean_items));
     for (const auto& item : rep.result.items) {
       std::string codes;
       for (const auto& f : item.findings)
@@ -366,7 +390,8 @@ class Demo {
     const store::ChainCheck c = db_->check_chain();
     txn.commit();
     if (c.ok) {
-      say(fmt::format("   store hash chain intact: {} rows, head {}", c.rows, c.head.substr(0, 16)));
+      say(fmt::format("   store hash chain intact: {} rows, head {}", c.rows,
+                      c.head.substr(0, 16)));
     } else {
       fail(fmt::format("store hash chain broken at {} #{}: {}", c.table, c.id, c.problem));
     }
@@ -374,13 +399,14 @@ class Demo {
 
   void finish() {
     if (ctx_.quiet) return;
-    const std::string db = db_path_, pub = keys_.public_path;
+    const std::string db = db_path_;
     std::cout << "\nWrote:\n"
               << fmt::format("  {:<44} the ticket store (SQLite, hash-chained)\n", db)
               << fmt::format("  {:<44} signed weigh-reports and their detached signatures\n",
                              join(dir_, "reports/*.pdf(.sig)"))
               << fmt::format("  {:<44} station key pair (the private key stays here)\n",
                              join(dir_, "keys/station.{key,pub.pem}"))
+              << fmt::format("  {:<44} the insurer's trust file for that key\n", trust_path_)
               << fmt::format("  {:<44} the insurer's audit of the reports\n", audit_txt_)
               << fmt::format("  {:<44} the same audit as a PDF summary\n", audit_pdf_)
               << fmt::format("  {:<44} the scenario's files (sessions, CSV, rigs, truth)\n",
@@ -397,12 +423,13 @@ class Demo {
     std::cout << "  " << audit_txt_ << "   what an insurer's audit makes of all of them\n";
     std::cout << "\nThen try:\n"
               << "  scaleproof --db " << db << " session list\n"
-              << "  scaleproof verify " << (sessions_.empty() ? "REPORT.pdf" : sessions_.front().pdf)
-              << " --pubkey " << pub << "\n"
-              << "  scaleproof plan " << join(dir_, "data-demo/sessions/01-pickup-travel-trailer.json")
-              << "\n"
-              << "  scaleproof reconcile " << join(dir_, "data-demo/sessions/03-mis-keyed-reading.json")
-              << "\n";
+              << "  scaleproof verify "
+              << (sessions_.empty() ? "REPORT.pdf" : sessions_.front().pdf) << " --trust "
+              << trust_path_ << "\n"
+              << "  scaleproof plan "
+              << join(dir_, "data-demo/sessions/01-pickup-travel-trailer.json") << "\n"
+              << "  scaleproof reconcile "
+              << join(dir_, "data-demo/sessions/03-mis-keyed-reading.json") << "\n";
     if (!failures_.empty())
       std::cout << "\nThe demo's self-check FAILED (" << failures_.size()
                 << " problem(s), listed on stderr).\n";
@@ -412,7 +439,7 @@ class Demo {
   fs::path dir_{out_};
   const Context& ctx_;
   json manifest_;
-  std::string db_path_, audit_txt_, audit_pdf_;
+  std::string db_path_, audit_txt_, audit_pdf_, trust_path_;
   std::unique_ptr<store::Store> db_;
   report::KeyFiles keys_;
   std::unique_ptr<report::Signer> signer_;
@@ -426,8 +453,9 @@ class Demo {
 
 void register_demo(CLI::App& app, Context& ctx) {
   CLI::App* sub = app.add_subcommand(
-      "demo", "Run the invented demo scenario end to end: store, imports, signed reports, "
-              "verification and an audit, in a fresh folder");
+      "demo",
+      "Run the invented demo scenario end to end: store, imports, signed reports, "
+      "verification and an audit, in a fresh folder");
   auto out = std::make_shared<std::string>("scaleproof-demo");
   sub->add_option("--out", *out, "Folder to build the demo in (must be new or empty)");
   sub->footer(

@@ -17,7 +17,7 @@ grep -E "04-wrong-tape-length.json .*geometry-mismatch \(ball_to_axle\)" "$WORK/
 grep -E "01-pickup-travel-trailer.json .*fit passed" "$WORK/out" >/dev/null || fail "the clean session did not pass its fit"
 
 # What it wrote.
-for f in store.db keys/station.key keys/station.pub.pem audit.txt audit-summary.pdf \
+for f in store.db keys/station.key keys/station.pub.pem keys/insurer.trust.toml audit.txt audit-summary.pdf \
          data-demo/demo.json data-demo/passes/05-return-visit.csv; do
   [ -s "$WORK/d/$f" ] || fail "demo did not write $f"
 done
@@ -37,6 +37,12 @@ expect_exit 0 "$SCALEPROOF" --db "$WORK/d/store.db" session list
 [ "$(grep -c "QX-1" "$WORK/out")" -ge 5 ] || fail "session list: $(cat "$WORK/out")"
 # The audit found the planted errors and the overloaded rear axle of the fifth-wheel truck.
 for want in inconsistent-reading geometry-mismatch rear_gawr; do expect_in "$WORK/d/audit.txt" "$want"; done
+# The audit trusts the station's key through the insurer's trust file (issue 15): the file names
+# the station and the key's validity, and a report verifies against it with its bounds shown.
+expect_in "$WORK/d/keys/insurer.trust.toml" 'format = "scaleproof-trust/1"'
+expect_in "$WORK/d/keys/insurer.trust.toml" 'station = "Quillmere Crossing Public Scale"'
+expect_exit 0 "$SCALEPROOF" verify "$WORK/d/reports/report-1-RA-1.pdf" --trust "$WORK/d/keys/insurer.trust.toml"
+expect_in "$WORK/out" "station key:        ok - the key of Quillmere Crossing Public Scale"
 
 # A folder that is not empty is refused (73) and left as it was.
 before=$(find "$WORK/d" -type f | sort | xargs sha256sum | sha256sum)
