@@ -8,7 +8,7 @@
 #include "ops/plan_session.h"
 #include "serve/handlers.h"
 #include "serve/html.h"
-#include "serve/plan_chart.h"
+#include "serve/plan_svg.h"
 
 namespace sp::serve {
 
@@ -52,9 +52,12 @@ Response plan_page(const Call& c) {
   const std::string sid = std::to_string(id);
   std::string h = verdict_line(sp.labels.verdict, sp.labels.verdict_reason);
   h += "<h1>Plan for session " + sid + "</h1>\n<p>" + esc(sp.plan.baseline.source) + ".</p>\n";
-  h += "<figure>" + plan_chart(sp.plan) +
-       "<figcaption>Axle loads against bar moment; dashed: the moment for the front axle load "
-       "restoration target; lines across: axle ratings.</figcaption></figure>\n";
+  PlanSvgOptions chart;
+  chart.title = sp.labels.tow + " + " + sp.labels.trailer;
+  chart.weighed = sp.labels.weighed;
+  h += "<figure>" + plan_svg(sp.plan, chart) +
+       "<figcaption>Axle loads against bar moment, the moment for the front axle load "
+       "restoration target and every rating line.</figcaption></figure>\n";
   h += "<table id=\"plan-ratings\"><caption>Ratings across the bar moments</caption><thead><tr>"
        "<th scope=\"col\">Rating</th><th scope=\"col\">Limit</th><th scope=\"col\">Exceeded"
        "</th></tr></thead><tbody>\n";
