@@ -41,7 +41,8 @@ PassFields fields_of(const Call& c) {
   return f;
 }
 
-std::string flag_item(const Flag& f, const Session& s, const std::string& unit) {
+std::string flag_item(const Call& c, const Flag& f, const Session& s, const std::string& unit,
+                      bool open) {
   std::string h = "<li class=\"flag severity-" + std::string(to_string(f.severity)) +
                   "\" data-code=\"" + esc(f.code) + "\"><strong>" +
                   esc(std::string(to_string(f.severity))) + ":</strong> " + esc(f.message);
@@ -51,10 +52,16 @@ std::string flag_item(const Flag& f, const Session& s, const std::string& unit) 
     if (f.needed) h += "; it would need about " + esc(n0(*f.needed)) + " " + esc(unit) + " to fit";
     h += ".</span>";
     for (const Pass& p : s.passes) {
-      if (p.ticket == *f.ticket && !p.voided && p.id) {
-        h += " <a class=\"rekey\" href=\"#pass-" + std::to_string(*p.id) +
-             "\">Void and re-key this pass</a>";
-      }
+      if (p.ticket != *f.ticket || p.voided || !p.id || !open) continue;
+      // One click: void the named pass (the reason says why) and get the form back holding
+      // its values, to key the corrected reading under the new ticket.
+      const std::string pid = std::to_string(*p.id);
+      h += " <form class=\"rekey\" method=\"post\" action=\"/sessions/" +
+           std::to_string(*s.session_id) + "/passes/" + pid + "/void\">" + csrf_input(c) +
+           "<input type=\"hidden\" name=\"reason\" value=\"" +
+           esc("the fit names the " + *f.platform + " reading (" + f.code + "); re-keyed") +
+           "\"><button type=\"submit\">Void and re-key</button></form> <a href=\"#pass-" + pid +
+           "\">See the pass</a>";
     }
   } else if (f.field) {
     h += "<br><span class=\"named\">The fit names the tape length " + esc(*f.field);
@@ -66,13 +73,13 @@ std::string flag_item(const Flag& f, const Session& s, const std::string& unit) 
   return h + "</li>\n";
 }
 
-std::string result_block(const Reconciled& rec, const Session& s) {
+std::string result_block(const Call& c, const Reconciled& rec, const Session& s, bool open) {
   const std::string unit(to_string(s.units.weight));
   std::string h;
   if (!rec.result) return h;
   const ReconcileResult& r = *rec.result;
   h += "<section aria-labelledby=\"flags-h\"><h2 id=\"flags-h\">Flags</h2>\n<ul id=\"flags\">\n";
-  for (const Flag& f : r.flags) h += flag_item(f, s, unit);
+  for (const Flag& f : r.flags) h += flag_item(c, f, s, unit, open);
   h += "</ul>\n";
   if (r.flags.empty()) h += "<p>No flags.</p>\n";
   h += "</section>\n";
@@ -189,7 +196,7 @@ Response desk_page(const Call& c, long long id, int status, const std::string& e
        "; scale " + esc(s.scale.id) + " (d = " + num(s.scale.division) + " " +
        std::string(to_string(s.units.weight)) + "); " +
        (open ? "open" : "closed " + esc(*hist.closed_at)) + ".</p>\n";
-  h += result_block(rec, s);
+  h += result_block(c, rec, s, open);
   h += passes_table(c, s, open);
   if (open) {
     h += pass_form(c, s, fields);
