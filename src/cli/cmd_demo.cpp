@@ -13,15 +13,15 @@
 // planted errors (demo.json "expect") must be named where they were planted, every report
 // must verify and the chain must be intact; otherwise it exits 1.
 // Exit: 0 done; 1 a self-check failed; 73 DIR not empty / cannot be created.
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cctype>
 #include <filesystem>
 #include <iostream>
 #include <memory>
-#include <sstream>
-
-#include <fmt/format.h>
 #include <nlohmann/json.hpp>
+#include <sstream>
 
 #include "audit/audit.h"
 #include "audit/calendar.h"
@@ -54,12 +54,15 @@ std::string_view demo_file(const std::string& name) {
                                       " (rebuild scaleproof after changing data-demo/)");
 }
 
-std::string join(const fs::path& a, const std::string& b) { return (a / b).string(); }
+std::string join(const fs::path& a, const std::string& b) {
+  return (a / b).string();
+}
 
 void make_dir(const fs::path& p) {
   std::error_code ec;
   fs::create_directories(p, ec);
-  if (ec) throw Error(ExitCode::cant_create, p.string() + ": cannot create the folder: " + ec.message());
+  if (ec)
+    throw Error(ExitCode::cant_create, p.string() + ": cannot create the folder: " + ec.message());
 }
 
 // File names from rig names: letters, digits and '-' only.
@@ -83,7 +86,7 @@ std::string flags_line(const ReconcileResult& r) {
   std::string s;
   for (const Flag& f : r.flags) {
     if (f.severity == Severity::note) continue;
-    std::string where = f.rating ? *f.rating
+    std::string where = f.rating   ? *f.rating
                         : f.ticket ? *f.ticket + (f.platform ? " " + *f.platform : "")
                                    : f.field.value_or("");
     s += (s.empty() ? "" : ", ") + f.code + (where.empty() ? "" : " (" + where + ")");
@@ -131,15 +134,17 @@ class Demo {
     std::error_code ec;
     if (fs::exists(dir_, ec) && !fs::is_empty(dir_, ec))
       throw Error(ExitCode::cant_create,
-                  out_ + ": exists and is not empty; the demo builds a fresh store: remove it or "
-                         "pass --out NEW-FOLDER");
+                  out_ +
+                      ": exists and is not empty; the demo builds a fresh store: remove it or "
+                      "pass --out NEW-FOLDER");
     for (const char* sub : {"", "keys", "reports", "data-demo"}) make_dir(dir_ / sub);
     for (const auto& f : embedded::demo_files()) {
       const fs::path p = dir_ / "data-demo" / std::string(f.name);
       make_dir(p.parent_path());
       report::write_file_atomic(p.string(), std::string(f.contents), true);
     }
-    say(fmt::format("scaleproof demo: an invented scenario at \"{}\" (every name, vehicle and "
+    say(
+        fmt::format("scaleproof demo: an invented scenario at \"{}\" (every name, vehicle and "
                     "ticket is made up)\n",
                     manifest_.at("station").get<std::string>()));
     say(fmt::format("1. scenario files copied to {}", join(dir_, "data-demo/")));
@@ -238,7 +243,8 @@ class Demo {
     }
     txn.commit();
     for (DemoSession& d : file_only_) sessions_.push_back(std::move(d));
-    say(fmt::format("2. ticket store {}: scale {} with {} inspections, {} rigs, {} sessions "
+    say(
+        fmt::format("2. ticket store {}: scale {} with {} inspections, {} rigs, {} sessions "
                     "({} from session files, {} passes from CSV), all closed",
                     db_path_, sc.at("id").get<std::string>(), sc.at("inspections").size(),
                     manifest_.at("rigs").size(), sessions_.size(), manifest_.at("sessions").size(),
@@ -251,7 +257,8 @@ class Demo {
                                       keys_.private_path);
     verifier_ =
         report::verifier_from_pem(report::read_file_bytes(keys_.public_path), keys_.public_path);
-    say(fmt::format("3. station key made just now: {} (private, mode 0600) and {}\n"
+    say(
+        fmt::format("3. station key made just now: {} (private, mode 0600) and {}\n"
                     "   fingerprint {}",
                     keys_.private_path, keys_.public_path, keys_.fingerprint));
   }
@@ -267,9 +274,8 @@ class Demo {
       opt.issued_at = last;  // issued as the rig leaves the scale (a fixed, invented time)
       opt.signed_by = d.session.operator_name;
       opt.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
-      const std::string base =
-          d.id > 0 ? fmt::format("report-{}-{}", d.id, slug(d.rig))
-                   : "report-file-" + slug(fs::path(d.source).stem().string());
+      const std::string base = d.id > 0 ? fmt::format("report-{}-{}", d.id, slug(d.rig))
+                                        : "report-file-" + slug(fs::path(d.source).stem().string());
       opt.pdf_name = base + ".pdf";
       const report::IssuedReport rep = report::issue_report(
           d.session, r, report::session_json(d.session), report::results_json(r), *signer_, opt);
@@ -278,17 +284,16 @@ class Demo {
       report::write_file_atomic(d.pdf, rep.pdf, true);
       report::write_file_atomic(d.sig, rep.pdf_signature, true);
       if (d.id > 0) record(d, rep, opt, last);
-      std::string fit = r.fit ? fmt::format("fit {} (chi-square {:.1f}, dof {})",
-                                            r.fit->passed ? "passed" : "FAILED",
-                                            r.fit->chi_square, r.fit->dof)
-                              : "no fit test";
+      std::string fit =
+          r.fit ? fmt::format("fit {} (chi-square {:.1f}, dof {})",
+                              r.fit->passed ? "passed" : "FAILED", r.fit->chi_square, r.fit->dof)
+                : "no fit test";
       say(fmt::format("   session {} {:<5} {:<40} {:<10} {}; {}", d.id, d.rig, d.source,
                       to_string(r.verdict), fit, flags_line(r)));
       for (const json& e : manifest_.at("expect"))
-        if ("data-demo/" + e.at("session").get<std::string>() == d.source &&
-            !expectation_met(e, r))
-          fail(fmt::format("{}: expected the planted error to be named ({}), it was not",
-                           d.source, e.dump()));
+        if ("data-demo/" + e.at("session").get<std::string>() == d.source && !expectation_met(e, r))
+          fail(fmt::format("{}: expected the planted error to be named ({}), it was not", d.source,
+                           e.dump()));
     }
   }
 
@@ -314,7 +319,8 @@ class Demo {
       opt.station_key = verifier_.get();
       opt.detached_signature = report::read_file_bytes(d.sig);
       opt.recompute = report::recompute_results;
-      const report::VerifyResult v = report::verify_report_bytes(report::read_file_bytes(d.pdf), opt);
+      const report::VerifyResult v =
+          report::verify_report_bytes(report::read_file_bytes(d.pdf), opt);
       int passed = 0;
       for (const auto& c : v.checks) passed += c.status == report::CheckStatus::passed;
       if (v.all_hold()) {
@@ -349,12 +355,15 @@ class Demo {
     audit_txt_ = join(dir_, "audit.txt");
     audit_pdf_ = join(dir_, "audit-summary.pdf");
     report::write_file_atomic(audit_txt_, audit::audit_text(rep, false), true);
-    report::write_file_atomic(audit_pdf_, audit::audit_pdf(rep), true);
-    say(fmt::format("6. audit of {} as an insurer runs it (claim date {}): {} items, {} errors, "
-                    "{} warnings, {} notes, {} clean",
-                    join(dir_, "reports/"), *opt.claim_date, rep.result.items.size(),
-                    rep.result.errors, rep.result.warnings, rep.result.notes,
-                    rep.result.clean_items));
+    // A handful of demo reports: one volume (audit_pdf splits only past its page limit).
+    const std::vector<std::string> pdf = audit::audit_pdf(rep);
+    if (pdf.size() != 1) throw Error(ExitCode::internal, "demo: the audit PDF needs one volume");
+    report::write_file_atomic(audit_pdf_, pdf.front(), true);
+    say(fmt::format(
+        "6. audit of {} as an insurer runs it (claim date {}): {} items, {} errors, "
+        "{} warnings, {} notes, {} clean",
+        join(dir_, "reports/"), *opt.claim_date, rep.result.items.size(), rep.result.errors,
+        rep.result.warnings, rep.result.notes, rep.result.clean_items));
     for (const auto& item : rep.result.items) {
       std::string codes;
       for (const auto& f : item.findings)
@@ -366,7 +375,8 @@ class Demo {
     const store::ChainCheck c = db_->check_chain();
     txn.commit();
     if (c.ok) {
-      say(fmt::format("   store hash chain intact: {} rows, head {}", c.rows, c.head.substr(0, 16)));
+      say(fmt::format("   store hash chain intact: {} rows, head {}", c.rows,
+                      c.head.substr(0, 16)));
     } else {
       fail(fmt::format("store hash chain broken at {} #{}: {}", c.table, c.id, c.problem));
     }
@@ -397,12 +407,13 @@ class Demo {
     std::cout << "  " << audit_txt_ << "   what an insurer's audit makes of all of them\n";
     std::cout << "\nThen try:\n"
               << "  scaleproof --db " << db << " session list\n"
-              << "  scaleproof verify " << (sessions_.empty() ? "REPORT.pdf" : sessions_.front().pdf)
-              << " --pubkey " << pub << "\n"
-              << "  scaleproof plan " << join(dir_, "data-demo/sessions/01-pickup-travel-trailer.json")
+              << "  scaleproof verify "
+              << (sessions_.empty() ? "REPORT.pdf" : sessions_.front().pdf) << " --pubkey " << pub
               << "\n"
-              << "  scaleproof reconcile " << join(dir_, "data-demo/sessions/03-mis-keyed-reading.json")
-              << "\n";
+              << "  scaleproof plan "
+              << join(dir_, "data-demo/sessions/01-pickup-travel-trailer.json") << "\n"
+              << "  scaleproof reconcile "
+              << join(dir_, "data-demo/sessions/03-mis-keyed-reading.json") << "\n";
     if (!failures_.empty())
       std::cout << "\nThe demo's self-check FAILED (" << failures_.size()
                 << " problem(s), listed on stderr).\n";
@@ -426,8 +437,9 @@ class Demo {
 
 void register_demo(CLI::App& app, Context& ctx) {
   CLI::App* sub = app.add_subcommand(
-      "demo", "Run the invented demo scenario end to end: store, imports, signed reports, "
-              "verification and an audit, in a fresh folder");
+      "demo",
+      "Run the invented demo scenario end to end: store, imports, signed reports, "
+      "verification and an audit, in a fresh folder");
   auto out = std::make_shared<std::string>("scaleproof-demo");
   sub->add_option("--out", *out, "Folder to build the demo in (must be new or empty)");
   sub->footer(
