@@ -82,10 +82,7 @@ RowBuilder& RowBuilder::i(long long v) {
 }
 RowBuilder& RowBuilder::i(const std::optional<long long>& v) {
   if (v) return i(*v);
-  expect(ColType::integer);
-  st_->bind_null(param_++);
-  s_.enc_.add_null();
-  return *this;
+  return null_of(ColType::integer);
 }
 RowBuilder& RowBuilder::r(double v) {
   expect(ColType::real);
@@ -99,10 +96,7 @@ RowBuilder& RowBuilder::r(double v) {
 }
 RowBuilder& RowBuilder::r(const std::optional<double>& v) {
   if (v) return r(*v);
-  expect(ColType::real);
-  st_->bind_null(param_++);
-  s_.enc_.add_null();
-  return *this;
+  return null_of(ColType::real);
 }
 RowBuilder& RowBuilder::t(std::string_view v) {
   expect(ColType::text);
@@ -112,10 +106,7 @@ RowBuilder& RowBuilder::t(std::string_view v) {
 }
 RowBuilder& RowBuilder::t(const std::optional<std::string>& v) {
   if (v) return t(std::string_view(*v));
-  expect(ColType::text);
-  st_->bind_null(param_++);
-  s_.enc_.add_null();
-  return *this;
+  return null_of(ColType::text);
 }
 
 RowBuilder& RowBuilder::kept(std::string_view v) {
@@ -126,7 +117,11 @@ RowBuilder& RowBuilder::kept(std::string_view v) {
 }
 RowBuilder& RowBuilder::kept(const std::optional<std::string>& v) {
   if (v) return kept(std::string_view(*v));
-  expect(ColType::text);
+  return null_of(ColType::text);
+}
+
+RowBuilder& RowBuilder::null_of(ColType type) {
+  expect(type);
   st_->bind_null(param_++);
   s_.enc_.add_null();
   return *this;

@@ -46,6 +46,7 @@ class RowBuilder {
 
  private:
   void expect(ColType type);
+  RowBuilder& null_of(ColType type);  // binds and encodes NULL for the next column
   void check_complete() const;
   SqliteStore& s_;
   struct Writer* w_;
