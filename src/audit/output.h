@@ -16,6 +16,7 @@
 //    "cautions": [text...]}
 // Items and findings are in the AuditResult's order (worst first).
 #pragma once
+#include <functional>
 #include <memory>
 #include <nlohmann/json.hpp>
 #include <string>
@@ -59,9 +60,17 @@ std::string audit_text_tail(std::size_t clean, const std::vector<std::string>& c
                             std::size_t max_clean_lines);
 // One element of the document's "items".
 nlohmann::ordered_json audit_json_item(const ItemAudit& item);
-// The audit summary PDF (A4), bytes. Throws sp::Error(internal) when the PDF cannot be made.
-// It is AuditPdfWriter fed with report.result's items.
-std::string audit_pdf(const AuditReport& report);
+// The audit summary PDF (A4) in volumes of at most `max_pages` pages each: the bytes of
+// volume 1, 2, ... (one element when it fits). libharu's page tree holds at most 8 191 pages
+// per document (HPDF_LIMIT_MAX_ARRAY in hpdf_consts.h), and it keeps a whole document in
+// memory until it is saved (~85 KiB a page measured), so a store-wide audit is split: every
+// volume opens with the same summary of the whole audit and names itself "Volume k of n"
+// (its footer too); the findings run on from one volume to the next in the audit's order.
+// Throws sp::Error(internal) when the PDF cannot be made. It is AuditPdfWriter fed with
+// report.result's items, twice (the first pass counts the volumes).
+inline constexpr std::size_t kAuditPdfPagesPerVolume = 1000;
+std::vector<std::string> audit_pdf(const AuditReport& report,
+                                   std::size_t max_pages = kAuditPdfPagesPerVolume);
 
 // The summary PDF drawn one item at a time, for writers that stream the items
 // (audit/output_stream.h): audit_pdf(report) byte for byte when given the same items.
@@ -69,17 +78,29 @@ std::string audit_pdf(const AuditReport& report);
 // is drawn at construction; then item() for each item with findings, in the result's order;
 // then finish() with the number of clean items and the clean_line() of the first ones in order
 // (kCleanListed are listed, the rest counted). The document is built in memory (libharu) and
-// returned by finish(). Throws sp::Error(internal) when the PDF cannot be made.
+// returned by finish(), in volumes of at most `max_pages` pages (see audit_pdf). With
+// `volumes` 0 it draws nothing and only counts the volumes (volumes() after finish(), which
+// then returns nothing); a second writer given that count draws them. Throws
+// sp::Error(internal) when the PDF cannot be made or `max_pages` (2 to kMaxPagesPerVolume)
+// cannot hold the summary.
 class AuditPdfWriter {
  public:
   static constexpr std::size_t kCleanListed = 200;
-  AuditPdfWriter(const AuditReport& head, std::size_t items);
+  static constexpr std::size_t kMaxPagesPerVolume = 8000;  // under libharu's 8 191
+  // Called with each volume as soon as it is finished (volume k of n, its bytes), so that
+  // only one volume is in memory; without a sink finish() returns them all.
+  using VolumeSink = std::function<void(std::size_t volume, std::size_t volumes, std::string)>;
+  AuditPdfWriter(const AuditReport& head, std::size_t items,
+                 std::size_t max_pages = kAuditPdfPagesPerVolume, std::size_t volumes = 1,
+                 VolumeSink sink = {});
   ~AuditPdfWriter();
   AuditPdfWriter(const AuditPdfWriter&) = delete;
   AuditPdfWriter& operator=(const AuditPdfWriter&) = delete;
   void item(const ItemAudit& item);
   static std::string clean_line(const ItemAudit& item);
-  std::string finish(std::size_t clean, const std::vector<std::string>& first_clean_lines);
+  std::vector<std::string> finish(std::size_t clean,
+                                  const std::vector<std::string>& first_clean_lines);
+  std::size_t volumes() const;
 
  private:
   struct State;

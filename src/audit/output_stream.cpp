@@ -49,8 +49,12 @@ std::vector<std::string> first_lines(
 }  // namespace
 
 AuditStreamWriter::AuditStreamWriter(Format format, bool colour, std::size_t max_clean_lines,
-                                     bool pdf)
-    : format_(format), colour_(colour), max_clean_lines_(max_clean_lines), with_pdf_(pdf) {
+                                     bool pdf, std::size_t pdf_max_pages)
+    : format_(format),
+      colour_(colour),
+      max_clean_lines_(max_clean_lines),
+      with_pdf_(pdf),
+      pdf_max_pages_(pdf_max_pages) {
   for (int i = 0; i < 4; ++i) buckets_.push_back(std::make_unique<Spill>());
 }
 
@@ -98,7 +102,6 @@ void AuditStreamWriter::finish(const AuditReport& report, std::ostream& out) {
                      [](const ItemAudit* a, const ItemAudit* b) { return a->index < b->index; });
   }
   std::optional<AuditPdfWriter> pdf;
-  if (with_pdf_) pdf.emplace(report, r.total_items);
   // Calls emit(item) for each item of rank `b` in index order.
   std::string rec;
   auto merge = [&](std::size_t b, const auto& emit) {
@@ -123,6 +126,20 @@ void AuditStreamWriter::finish(const AuditReport& report, std::ostream& out) {
       }
     }
   };
+
+  const std::vector<std::string> pdf_clean =
+      with_pdf_ ? first_lines(pdf_clean_, kept[3], AuditPdfWriter::kCleanListed,
+                              AuditPdfWriter::clean_line)
+                : std::vector<std::string>();
+  if (with_pdf_) {
+    // First pass: lay the PDF out without drawing to count its volumes (each names "k of n"),
+    // then read the temporary files again for the pass that writes everything.
+    AuditPdfWriter dry(report, r.total_items, pdf_max_pages_, 0);
+    for (std::size_t b = 0; b < 3; ++b) merge(b, [&](const ItemAudit& ia) { dry.item(ia); });
+    dry.finish(static_cast<std::size_t>(r.clean_items), pdf_clean);
+    for (auto& sp : buckets_) sp->rewind();
+    pdf.emplace(report, r.total_items, pdf_max_pages_, dry.volumes(), pdf_sink_);
+  }
 
   if (format_ == Format::text) {
     out << audit_text_head(report, r.total_items, r.claims);
@@ -167,9 +184,7 @@ void AuditStreamWriter::finish(const AuditReport& report, std::ostream& out) {
     out.write(text.data() + rest, static_cast<std::streamsize>(text.size() - rest));
   }
   if (pdf) {
-    pdf_ = pdf->finish(
-        static_cast<std::size_t>(r.clean_items),
-        first_lines(pdf_clean_, kept[3], AuditPdfWriter::kCleanListed, AuditPdfWriter::clean_line));
+    pdf_ = pdf->finish(static_cast<std::size_t>(r.clean_items), pdf_clean);
   }
 }
 

@@ -29,7 +29,7 @@ class AuditStreamWriter {
  public:
   enum class Format { text, json };
   explicit AuditStreamWriter(Format format, bool colour = false, std::size_t max_clean_lines = 50,
-                             bool pdf = false);
+                             bool pdf = false, std::size_t pdf_max_pages = kAuditPdfPagesPerVolume);
   ~AuditStreamWriter();
   AuditStreamWriter(const AuditStreamWriter&) = delete;
   AuditStreamWriter& operator=(const AuditStreamWriter&) = delete;
@@ -43,19 +43,25 @@ class AuditStreamWriter {
   std::uint64_t temp_raw_bytes() const;
   // `report.result` as Auditor::finish() returned it: the kept items, counts over all items.
   void finish(const AuditReport& report, std::ostream& out);
-  // The summary PDF's bytes, after finish() of a writer made with `pdf`.
-  std::string take_pdf() { return std::move(pdf_); }
+  // The summary PDF's volumes (audit_pdf), after finish() of a writer made with `pdf`. The
+  // PDF is laid out twice (the first pass counts the volumes), the temporary files read twice.
+  // With a sink (before finish()) each volume goes to it as soon as it is drawn instead, so
+  // memory holds one volume.
+  std::vector<std::string> take_pdf() { return std::move(pdf_); }
+  void set_pdf_sink(AuditPdfWriter::VolumeSink sink) { pdf_sink_ = std::move(sink); }
 
  private:
   Format format_;
   bool colour_;
   std::size_t max_clean_lines_;
   bool with_pdf_;
+  std::size_t pdf_max_pages_;
   std::vector<std::unique_ptr<Spill>> buckets_;  // by rank: error, warning, note, none
   std::vector<std::pair<std::uint32_t, std::string>> clean_lines_;  // text: first clean items
   std::vector<std::pair<std::uint32_t, std::string>> pdf_clean_;    // PDF: first clean items
   std::size_t spilled_ = 0;
-  std::string pdf_;
+  std::vector<std::string> pdf_;
+  AuditPdfWriter::VolumeSink pdf_sink_;
 };
 
 }  // namespace sp::audit

@@ -105,4 +105,19 @@ bool Spill::read(std::string& record) {
   return true;
 }
 
+void Spill::rewind() {
+  if (!reading_) {
+    read_ = 0;  // nothing read yet (read() starts from the first record)
+    return;
+  }
+  inflateEnd(&z_);
+  reading_ = false;
+  if (std::fseek(file_, 0, SEEK_SET) != 0)
+    throw Error(ExitCode::io_error, io_message("cannot rewind"));
+  z_ = z_stream{};
+  if (inflateInit(&z_) != Z_OK) throw Error(ExitCode::internal, "audit: zlib inflateInit failed");
+  reading_ = true;
+  read_ = 0;
+}
+
 }  // namespace sp::audit

@@ -31,6 +31,8 @@ class Spill {
   std::uint64_t raw_bytes() const { return raw_bytes_; }
   // The next record in put() order into `record`; false after the last one.
   bool read(std::string& record);
+  // Reads from the first record again (after reads; no more put()).
+  void rewind();
 
  private:
   void open();

@@ -6,6 +6,7 @@
 
 #include <chrono>
 #include <iostream>
+#include <optional>
 
 #include "audit/audit.h"
 #include "audit/calendar.h"
@@ -33,7 +34,67 @@ struct AuditOpts {
   int stale_days = 180;
   bool json = false;
   std::string pdf;
+  std::size_t pdf_pages = audit::kAuditPdfPagesPerVolume;
   std::string ledger;
+};
+
+// Volume k of the summary PDF: k = 1 is the --pdf name itself, then NAME-2.pdf, NAME-3.pdf, ...
+// (the number before a final ".pdf", else at the end).
+std::string volume_path(const std::string& base, std::size_t k) {
+  if (k == 1) return base;
+  const std::size_t slash = base.find_last_of('/');
+  const std::size_t dot = base.size() >= 4 ? base.size() - 4 : std::string::npos;
+  const bool ext = dot != std::string::npos && (slash == std::string::npos || dot > slash + 1) &&
+                   (base.compare(dot, 4, ".pdf") == 0 || base.compare(dot, 4, ".PDF") == 0);
+  const std::string n = "-" + std::to_string(k);
+  return ext ? base.substr(0, dot) + n + base.substr(dot) : base + n;
+}
+
+// The summary PDF's volumes as files, each written as soon as it is drawn (memory holds one).
+// None is overwritten: before the first is written every name of the set is checked; if the
+// command fails after some were written, they are removed again (no partial set stays).
+class VolumeFiles {
+ public:
+  explicit VolumeFiles(std::string base) : base_(std::move(base)) {}
+  ~VolumeFiles() {
+    if (kept_) return;
+    for (const auto& p : written_) ::unlink(p.c_str());
+  }
+  VolumeFiles(const VolumeFiles&) = delete;
+  VolumeFiles& operator=(const VolumeFiles&) = delete;
+
+  void write(std::size_t k, std::size_t n, const std::string& bytes) {
+    if (k == 1) {
+      for (std::size_t j = 1; j <= n; ++j) {
+        const std::string path = volume_path(base_, j);
+        if (::access(path.c_str(), F_OK) == 0) {
+          throw Error(ExitCode::cant_create,
+                      path + ": already exists (the audit PDF is not overwritten)");
+        }
+      }
+    }
+    const std::string path = volume_path(base_, k);
+    report::write_file_atomic(path, bytes, /*exclusive=*/true);
+    written_.push_back(path);
+    volumes_ = n;
+  }
+  // The set is complete: keep it, and say where it went.
+  void keep(bool say) {
+    kept_ = true;
+    if (!say) return;
+    if (volumes_ == 1) {
+      std::cout << "Audit summary written to " << base_ << "\n";
+    } else {
+      std::cout << "Audit summary written in " << volumes_ << " volumes: " << base_ << " to "
+                << volume_path(base_, volumes_) << " (each opens with the same summary)\n";
+    }
+  }
+
+ private:
+  std::string base_;
+  std::vector<std::string> written_;
+  std::size_t volumes_ = 0;
+  bool kept_ = false;
 };
 
 // audit --ledger STORE: each report's anchor against a copy of the station's ledger. The chain
@@ -105,6 +166,10 @@ void register_audit(CLI::App& app, Context& ctx) {
   sub->add_flag("--json", o->json, "Print the audit as JSON (format scaleproof-audit/1)");
   sub->add_option("--pdf", o->pdf,
                   "Also write an audit summary PDF to this file (not overwritten)");
+  sub->add_option("--pdf-pages", o->pdf_pages,
+                  "Pages per volume of the --pdf summary; a longer one continues in NAME-2.pdf, "
+                  "NAME-3.pdf, ... (default 1000)")
+      ->check(CLI::Range(std::size_t{10}, audit::AuditPdfWriter::kMaxPagesPerVolume));
   auto* ledger = sub->add_option("--ledger", o->ledger,
                                  "A copy of the station's store: every report's ledger anchor "
                                  "must be a prefix of its chain (with PATH...)");
@@ -146,16 +211,20 @@ void register_audit(CLI::App& app, Context& ctx) {
       if (*session) one = o->session;
       std::vector<std::string> keys;
       for (const auto& k : trusted) keys.push_back(k.fingerprint);
-      audit::AuditStreamWriter writer(o->json ? audit::AuditStreamWriter::Format::json
-                                              : audit::AuditStreamWriter::Format::text,
-                                      ctx.colour, 50, !o->pdf.empty());
+      audit::AuditStreamWriter writer(
+          o->json ? audit::AuditStreamWriter::Format::json : audit::AuditStreamWriter::Format::text,
+          ctx.colour, 50, !o->pdf.empty(), o->pdf_pages);
+      std::optional<VolumeFiles> files;
+      if (!o->pdf.empty()) {
+        files.emplace(o->pdf);
+        writer.set_pdf_sink([&files](std::size_t k, std::size_t n, std::string bytes) {
+          files->write(k, n, bytes);
+        });
+      }
       const audit::AuditResult counts =
           audit::audit_store_streamed(*db, resolve_db_path(ctx), one, opt, keys, writer, std::cout);
       if (o->json) std::cout << "\n";
-      if (!o->pdf.empty()) {
-        report::write_file_atomic(o->pdf, writer.take_pdf(), /*exclusive=*/true);
-        if (!ctx.quiet && !o->json) std::cout << "Audit summary written to " << o->pdf << "\n";
-      }
+      if (files) files->keep(!ctx.quiet && !o->json);
       ctx.exit_code = static_cast<int>(counts.errors > 0 ? ExitCode::check_failed : ExitCode::ok);
       return;
     }
@@ -180,8 +249,13 @@ void register_audit(CLI::App& app, Context& ctx) {
       std::cout << audit::audit_text(rep, ctx.colour);
     }
     if (!o->pdf.empty()) {
-      report::write_file_atomic(o->pdf, audit::audit_pdf(rep), /*exclusive=*/true);
-      if (!ctx.quiet && !o->json) std::cout << "Audit summary written to " << o->pdf << "\n";
+      // A claim file is small: its volumes are drawn in memory, then written.
+      const std::vector<std::string> volumes = audit::audit_pdf(rep, o->pdf_pages);
+      VolumeFiles files(o->pdf);
+      for (std::size_t k = 1; k <= volumes.size(); ++k) {
+        files.write(k, volumes.size(), volumes[k - 1]);
+      }
+      files.keep(!ctx.quiet && !o->json);
     }
     ExitCode code = !rep.unreadable.empty() ? ExitCode::data_error
                     : rep.result.errors > 0 ? ExitCode::check_failed

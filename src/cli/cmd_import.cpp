@@ -4,17 +4,15 @@
 // ETA; cli/progress_line.h), only when stderr is a terminal and --quiet is not given.
 // Exit: 0 imported; 65 a record is refused ("file:line: column: what was expected");
 // 66 a file does not exist; 74 read error; 75 the store stayed busy.
+#include <fmt/format.h>
 #include <sys/stat.h>
 
 #include <chrono>
 #include <cstdlib>
-#include <optional>
-
 #include <fstream>
 #include <iostream>
+#include <optional>
 #include <sstream>
-
-#include <fmt/format.h>
 
 #include "cli/commands.h"
 #include "cli/progress_line.h"
@@ -28,7 +26,8 @@ namespace sp::cli {
 namespace {
 
 bool ends_with(const std::string& s, const std::string& suffix) {
-  return s.size() >= suffix.size() && s.compare(s.size() - suffix.size(), suffix.size(), suffix) == 0;
+  return s.size() >= suffix.size() &&
+         s.compare(s.size() - suffix.size(), suffix.size(), suffix) == 0;
 }
 
 // The extension decides (.json is a session file, .csv passes); only an unnamed kind is sniffed,
@@ -67,9 +66,12 @@ void register_import(CLI::App& app, Context& ctx) {
     std::string by;
   };
   auto o = std::make_shared<Opts>();
-  auto* sub = app.add_subcommand("import", "Import session files (JSON) and CSV of passes; all "
-                                           "or nothing");
-  sub->footer("Examples:\n  scaleproof import data-demo/sessions/01-pickup-travel-trailer.json\n  scaleproof import data-demo/passes/05-return-visit.csv");
+  auto* sub = app.add_subcommand("import",
+                                 "Import session files (JSON) and CSV of passes; all "
+                                 "or nothing");
+  sub->footer(
+      "Examples:\n  scaleproof import data-demo/sessions/01-pickup-travel-trailer.json\n  "
+      "scaleproof import data-demo/passes/05-return-visit.csv");
   sub->add_option("FILE", o->files, "Session file (.json) or CSV of passes (.csv)")->required();
   sub->add_option("--by", o->by, "Who imports (default $SCALEPROOF_OPERATOR, $USER)");
   sub->callback([&ctx, o] {
@@ -77,6 +79,7 @@ void register_import(CLI::App& app, Context& ctx) {
     auto by = who(o->by);
     const bool show_progress = stderr_is_terminal() && !ctx.quiet;
     store::Txn txn(*store, store::Txn::write);
+    store->begin_bulk();
     std::vector<std::string> done;
     for (const std::string& path : o->files) {
       struct stat st {};
@@ -93,9 +96,9 @@ void register_import(CLI::App& app, Context& ctx) {
       } else {
         std::optional<ProgressLine> line;
         if (show_progress) {
-          line.emplace(path, static_cast<std::uint64_t>(st.st_size), seconds_now,
-                       [](const std::string& text) { std::cerr << text << std::flush; },
-                       progress_delay());
+          line.emplace(
+              path, static_cast<std::uint64_t>(st.st_size), seconds_now,
+              [](const std::string& text) { std::cerr << text << std::flush; }, progress_delay());
         }
         auto progress = [&line](long long rows, std::uint64_t bytes) {
           if (line) line->update(rows, bytes);
@@ -103,11 +106,11 @@ void register_import(CLI::App& app, Context& ctx) {
         auto stats = store::import_pass_csv(*store, in, path, by, progress);
         if (line) line->finish();
         if (in.bad()) throw Error(ExitCode::io_error, path + ": read failed");
-        done.push_back(fmt::format("{}: {} passes ({} voided{}), {} sessions opened, {} added to",
-                                   path, stats.passes, stats.voided,
-                                   stats.corrected ? fmt::format(", {} corrected", stats.corrected)
-                                                   : std::string(),
-                                   stats.sessions_opened, stats.sessions_joined));
+        done.push_back(fmt::format(
+            "{}: {} passes ({} voided{}), {} sessions opened, {} added to", path, stats.passes,
+            stats.voided,
+            stats.corrected ? fmt::format(", {} corrected", stats.corrected) : std::string(),
+            stats.sessions_opened, stats.sessions_joined));
       }
     }
     txn.commit();

@@ -37,13 +37,14 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
   WeightUnit unit = WeightUnit::lb;  // the current session's scale unit
   const CsvLineNames names(source, row.line);
   std::map<std::string, std::pair<long long, WeightUnit>> scale_ids;  // code -> id, unit
-  std::map<std::string, long long> rig_ids;    // rig name -> id (rigs repeat across sessions)
-  // Consecutive passes of one session may go to the store together (one INSERT for up to
-  // kBatch rows, Store::add_passes). Since schema/002 one row per statement is cheaper: a
-  // table with an INSERT trigger makes SQLite stage a multi-row INSERT in a temporary table
-  // first, which costs more than the statement it saves (callgrind, 10^4 rows: 68.6 k
-  // instructions a row with 16, 63.2 k with 1; bench/README.md, "append-only guards").
-  constexpr size_t kBatch = 1;
+  std::map<std::string, long long> rig_ids;  // rig name -> id (rigs repeat across sessions)
+  // Consecutive passes of one session go to the store together (one INSERT for up to kBatch
+  // rows, Store::add_passes). With the INSERT guard in place one row a statement was cheaper
+  // (a table with an INSERT trigger makes SQLite stage a multi-row INSERT in a temporary
+  // table first); `import` lifts that guard for its transaction (Store::begin_bulk), and then
+  // batches are cheaper again (callgrind, 10^4 rows: 546.6 M instructions with 1 row a
+  // statement, 528.7 M with 16; bench/README.md). Without begin_bulk both are correct.
+  constexpr size_t kBatch = 16;
   std::vector<Pass> pending;
   std::vector<long> pending_lines;
   auto at_line = [&](long line, const Error& e) {
@@ -70,7 +71,8 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
     }
     long long before = stats.passes;
     stats.passes += static_cast<long long>(ids.size());
-    if (progress && before / 4096 != stats.passes / 4096) progress(stats.passes, reader.bytes_read());
+    if (progress && before / 4096 != stats.passes / 4096)
+      progress(stats.passes, reader.bytes_read());
     pending.clear();
     pending_lines.clear();
     return ids.back();
@@ -92,14 +94,17 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
           }
           ++stats.sessions_joined;
         } else {
-          if (!row.scale) throw data_error("scale: expected the scale id to open session " + row.session);
-          if (!row.rig) throw data_error("rig: expected the rig name to open session " + row.session);
+          if (!row.scale)
+            throw data_error("scale: expected the scale id to open session " + row.session);
+          if (!row.rig)
+            throw data_error("rig: expected the rig name to open session " + row.session);
           auto it = scale_ids.find(*row.scale);
           if (it == scale_ids.end()) {
             auto sc = store.find_scale(*row.scale);
             if (!sc) {
               throw Error(ExitCode::data_error,
-                          "scale: " + *row.scale + " is not in the store (add it with `scaleproof scale add`)");
+                          "scale: " + *row.scale +
+                              " is not in the store (add it with `scaleproof scale add`)");
             }
             it = scale_ids.emplace(*row.scale, std::pair{sc->id, sc->unit}).first;
           }
@@ -108,7 +113,8 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
           if (rit == rig_ids.end()) {
             auto rig = store.find_rig(*row.rig);
             if (!rig) {
-              throw data_error("rig: " + *row.rig + " is not in the store (add it with `scaleproof rig add`)");
+              throw data_error("rig: " + *row.rig +
+                               " is not in the store (add it with `scaleproof rig add`)");
             }
             rit = rig_ids.emplace(*row.rig, rig->id).first;
           }
@@ -136,9 +142,10 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
       try {
         auto pass_id = store.find_pass(session_id, row.pass.ticket);
         if (!pass_id) {
-          throw data_error(fmt::format("correction_reason: ticket {} has no pass in session {} "
-                                       "to correct (a correction row comes after its pass)",
-                                       row.pass.ticket, row.session));
+          throw data_error(
+              fmt::format("correction_reason: ticket {} has no pass in session {} "
+                          "to correct (a correction row comes after its pass)",
+                          row.pass.ticket, row.session));
         }
         store.correct_pass(*pass_id, session_id, row.pass, *row.correction_reason,
                            row.pass.entered_by, row.pass.entered_at.value_or(""));
@@ -152,12 +159,14 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
       }
       continue;
     }
-    pending.push_back(row.pass);
+    const std::optional<std::string> entered_by =
+        row.void_reason ? row.pass.entered_by : std::nullopt;
+    pending.push_back(std::move(row.pass));  // the reader sets every field of the next row
     pending_lines.push_back(row.line);
     if (row.void_reason) {
       long long pass_id = flush();
       try {
-        store.void_pass(pass_id, *row.void_reason, row.pass.entered_by, "");
+        store.void_pass(pass_id, *row.void_reason, entered_by, "");
       } catch (const Error& e) {
         throw at_line(row.line, e);
       }
@@ -174,7 +183,9 @@ ImportStats import_pass_csv(Store& store, std::istream& in, const std::string& s
 
 namespace {
 
-bool same(const std::optional<double>& a, const std::optional<double>& b) { return a == b; }
+bool same(const std::optional<double>& a, const std::optional<double>& b) {
+  return a == b;
+}
 
 bool same_rig(const RigRecord& r, const Session& s) {
   const TowVehicle& a = r.vehicle;
@@ -193,9 +204,10 @@ bool same_rig(const RigRecord& r, const Session& s) {
 template <class T>
 void must_match(const std::string& scale, const char* field, const T& stored, const T& given) {
   if (!(stored == given)) {
-    throw data_error(fmt::format("scale {}: {} differs from the scale of that id already in the "
-                                 "store; give the scale another id or fix the file",
-                                 scale, field));
+    throw data_error(
+        fmt::format("scale {}: {} differs from the scale of that id already in the "
+                    "store; give the scale another id or fix the file",
+                    scale, field));
   }
 }
 
@@ -213,7 +225,8 @@ long long scale_for(Store& store, const Session& s, const std::optional<std::str
   if (b.location) must_match(b.id, "location", a.location, b.location);
   if (b.last_inspected) {
     bool known = false;
-    for (const auto& i : store.inspections(sc->id)) known = known || i.inspected_on == *b.last_inspected;
+    for (const auto& i : store.inspections(sc->id))
+      known = known || i.inspected_on == *b.last_inspected;
     if (!known) {
       Inspection i;
       i.scale_id = sc->id;

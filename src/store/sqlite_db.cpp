@@ -53,7 +53,9 @@ Db::Db(const std::string& path, bool create, int busy_timeout_ms) : path_(path) 
   exec("PRAGMA foreign_keys = ON; PRAGMA recursive_triggers = ON;", "connection settings");
 }
 
-Db::~Db() { sqlite3_close_v2(db_); }
+Db::~Db() {
+  sqlite3_close_v2(db_);
+}
 
 void Db::exec(const std::string& sql, std::string_view what) {
   char* err = nullptr;
@@ -62,19 +64,21 @@ void Db::exec(const std::string& sql, std::string_view what) {
     std::string msg = err != nullptr ? err : sqlite3_errstr(rc);
     sqlite3_free(err);
     if (exit_code_for(rc) == ExitCode::temp_fail) {
-      throw Error(ExitCode::temp_fail,
-                  path_ + ": " + std::string(what) + ": store busy (another process holds it); try again");
+      throw Error(ExitCode::temp_fail, path_ + ": " + std::string(what) +
+                                           ": store busy (another process holds it); try again");
     }
     throw Error(exit_code_for(rc), path_ + ": " + std::string(what) + ": " + msg);
   }
 }
 
-void Db::fail(int rc, std::string_view what) const { fail(rc, what, sqlite3_errmsg(db_)); }
+void Db::fail(int rc, std::string_view what) const {
+  fail(rc, what, sqlite3_errmsg(db_));
+}
 
 void Db::fail(int rc, std::string_view what, const std::string& msg) const {
   if (exit_code_for(rc) == ExitCode::temp_fail) {
-    throw Error(ExitCode::temp_fail,
-                path_ + ": " + std::string(what) + ": store busy (another process holds it); try again");
+    throw Error(ExitCode::temp_fail, path_ + ": " + std::string(what) +
+                                         ": store busy (another process holds it); try again");
   }
   throw Error(exit_code_for(rc), path_ + ": " + std::string(what) + ": " + msg);
 }
@@ -85,7 +89,9 @@ Stmt::Stmt(Db& db, const std::string& sql) : db_(db) {
   if (rc != SQLITE_OK) db.fail(rc, "preparing `" + sql.substr(0, 60) + "`");
 }
 
-Stmt::~Stmt() { sqlite3_finalize(st_); }
+Stmt::~Stmt() {
+  sqlite3_finalize(st_);
+}
 
 Stmt& Stmt::bind_null(int i) {
   sqlite3_bind_null(st_, i);
@@ -103,6 +109,10 @@ Stmt& Stmt::bind(int i, std::string_view v) {
   sqlite3_bind_text(st_, i, v.data(), static_cast<int>(v.size()), SQLITE_TRANSIENT);
   return *this;
 }
+Stmt& Stmt::bind_static(int i, std::string_view v) {
+  sqlite3_bind_text(st_, i, v.data(), static_cast<int>(v.size()), SQLITE_STATIC);
+  return *this;
+}
 Stmt& Stmt::bind_blob(int i, const void* data, int size) {
   sqlite3_bind_blob(st_, i, data, size, SQLITE_TRANSIENT);
   return *this;
@@ -110,7 +120,9 @@ Stmt& Stmt::bind_blob(int i, const void* data, int size) {
 Stmt& Stmt::bind(int i, const std::optional<std::string>& v) {
   return v ? bind(i, std::string_view(*v)) : bind_null(i);
 }
-Stmt& Stmt::bind(int i, const std::optional<double>& v) { return v ? bind(i, *v) : bind_null(i); }
+Stmt& Stmt::bind(int i, const std::optional<double>& v) {
+  return v ? bind(i, *v) : bind_null(i);
+}
 Stmt& Stmt::bind(int i, const std::optional<long long>& v) {
   return v ? bind(i, *v) : bind_null(i);
 }
@@ -135,7 +147,9 @@ void Stmt::reset() {
   sqlite3_clear_bindings(st_);
 }
 
-std::string Stmt::text(int col) const { return std::string(text_view(col)); }
+std::string Stmt::text(int col) const {
+  return std::string(text_view(col));
+}
 
 std::string_view Stmt::text_view(int col) const {
   const unsigned char* p = sqlite3_column_text(st_, col);

@@ -54,6 +54,8 @@ class Stmt {
   Stmt& bind(int i, const std::string& v) { return bind(i, std::string_view(v)); }
   Stmt& bind(int i, const char* v) { return bind(i, std::string_view(v)); }
   Stmt& bind_blob(int i, const void* data, int size);
+  // Not copied (SQLITE_STATIC): `v` must stay valid until reset().
+  Stmt& bind_static(int i, std::string_view v);
   Stmt& bind(int i, const std::optional<std::string>& v);
   Stmt& bind(int i, const std::optional<double>& v);
   Stmt& bind(int i, const std::optional<long long>& v);

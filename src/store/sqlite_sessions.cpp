@@ -16,32 +16,55 @@ long long SqliteStore::open_session(const NewSession& s) {
     throw Error(ExitCode::no_input, fmt::format("scale id {}: not in the store", s.scale_id));
   }
   if (scale->unit != rig->units.weight) {
-    throw data_error(fmt::format("scale {} weighs in {} but rig {} is described in {}; use one "
-                                 "weight unit for both",
-                                 scale->info.id, to_string(scale->unit), rig->name,
-                                 to_string(rig->units.weight)));
+    throw data_error(fmt::format(
+        "scale {} weighs in {} but rig {} is described in {}; use one "
+        "weight unit for both",
+        scale->info.id, to_string(scale->unit), rig->name, to_string(rig->units.weight)));
   }
   if (s.length_uncertainty && !(*s.length_uncertainty > 0)) {
-    throw data_error(fmt::format("length_uncertainty: expected a length > 0, got {}",
-                                 *s.length_uncertainty));
+    throw data_error(
+        fmt::format("length_uncertainty: expected a length > 0, got {}", *s.length_uncertainty));
   }
-  if (s.ref) {
-    if (s.ref->empty()) throw data_error("session: expected a session key, got an empty one");
-    if (find_session_by_ref(*s.ref)) {
+  if (s.ref && s.ref->empty()) {
+    throw data_error("session: expected a session key, got an empty one");
+  }
+  long long id = 0;
+  try {
+    // A key already in the store is refused by the UNIQUE index (and the append-only guard);
+    // it is looked up only then, for the message (the import looks every key up already).
+    const std::string at = when(s.opened_at);
+    id = RowBuilder(*this, "sessions")
+             .t(s.ref)
+             .i(s.rig_id)
+             .i(s.scale_id)
+             .t(s.station)
+             .t(s.operator_name)
+             .t(s.owner)
+             .t(s.notes)
+             .r(s.length_uncertainty)
+             .t(s.opened_by)
+             .t(at)
+             .append("opening a session");
+  } catch (const Error& e) {
+    if (e.code() == ExitCode::data_error && s.ref && find_session_by_ref(*s.ref)) {
       throw data_error("session " + *s.ref + ": a session with this key is already in the store");
     }
+    throw;
   }
-  return RowBuilder(*this, "sessions")
-      .t(s.ref).i(s.rig_id).i(s.scale_id).t(s.station).t(s.operator_name).t(s.owner).t(s.notes)
-      .r(s.length_uncertainty).t(s.opened_by).t(when(s.opened_at))
-      .append("opening a session");
+  // The new session is open and on `scale`: what add_pass would read back (session_ctx).
+  session_ctx_.id = id;
+  session_ctx_.scale = scale->info;
+  session_ctx_.unit = scale->unit;
+  session_ctx_.closed = false;
+  return id;
 }
 
 const SessionCtx& SqliteStore::session_ctx(long long session_id) {
   if (session_ctx_.id == session_id) return session_ctx_;
-  Stmt& q = stmt("SELECT s.scale_id, r.vehicle_id, "
-                 "EXISTS (SELECT 1 FROM session_closings c WHERE c.session_id = s.id) "
-                 "FROM sessions s JOIN rigs r ON r.id = s.rig_id WHERE s.id = ?");
+  Stmt& q = stmt(
+      "SELECT s.scale_id, r.vehicle_id, "
+      "EXISTS (SELECT 1 FROM session_closings c WHERE c.session_id = s.id) "
+      "FROM sessions s JOIN rigs r ON r.id = s.rig_id WHERE s.id = ?");
   q.bind(1, session_id);
   if (!q.step("reading a session")) {
     q.reset();
@@ -64,7 +87,10 @@ void SqliteStore::close_session(long long session_id, const std::optional<std::s
   if (session_ctx(session_id).closed) {
     throw data_error(fmt::format("session {}: already closed", session_id));
   }
-  RowBuilder(*this, "session_closings").i(session_id).t(by).t(when(at))
+  RowBuilder(*this, "session_closings")
+      .i(session_id)
+      .t(by)
+      .t(when(at))
       .append(fmt::format("closing session {}", session_id));
   session_ctx_ = SessionCtx{};
 }
@@ -236,9 +262,10 @@ void SqliteStore::for_each_session(const std::function<void(const Session&)>& fn
 SessionHistory SqliteStore::session_history(long long session_id) {
   SessionHistory h;
   h.session = load_session(session_id);
-  Stmt& q = stmt("SELECT s.ref, s.opened_by, s.opened_at, r.name, c.closed_by, c.closed_at, "
-                 "s.scale_id FROM sessions s JOIN rigs r ON r.id = s.rig_id "
-                 "LEFT JOIN session_closings c ON c.session_id = s.id WHERE s.id = ?");
+  Stmt& q = stmt(
+      "SELECT s.ref, s.opened_by, s.opened_at, r.name, c.closed_by, c.closed_at, "
+      "s.scale_id FROM sessions s JOIN rigs r ON r.id = s.rig_id "
+      "LEFT JOIN session_closings c ON c.session_id = s.id WHERE s.id = ?");
   q.bind(1, session_id);
   q.step("reading a session");
   h.ref = q.opt_text(0);
@@ -249,13 +276,14 @@ SessionHistory SqliteStore::session_history(long long session_id) {
   h.closed_at = q.opt_text(5);
   long long scale_id = q.i64(6);
   q.reset();
-  Stmt& c = stmt("SELECT k.id, k.pass_id, p.ticket, k.action, k.reason, k.made_by, k.made_at "
-                 "FROM corrections k JOIN passes p ON p.id = k.pass_id "
-                 "WHERE p.session_id = ? ORDER BY k.id");
+  Stmt& c = stmt(
+      "SELECT k.id, k.pass_id, p.ticket, k.action, k.reason, k.made_by, k.made_at "
+      "FROM corrections k JOIN passes p ON p.id = k.pass_id "
+      "WHERE p.session_id = ? ORDER BY k.id");
   c.bind(1, session_id);
   while (c.step("reading corrections")) {
-    h.corrections.push_back(Correction{c.i64(0), c.i64(1), c.text(2), c.text(3), c.text(4),
-                                       c.opt_text(5), c.text(6)});
+    h.corrections.push_back(
+        Correction{c.i64(0), c.i64(1), c.text(2), c.text(3), c.text(4), c.opt_text(5), c.text(6)});
   }
   c.reset();
   h.inspections = inspections(scale_id);
@@ -267,8 +295,8 @@ SessionHistory SqliteStore::session_history(long long session_id) {
 long long SqliteStore::add_pass(long long session_id, const Pass& pass) {
   const SessionCtx& ctx = session_ctx(session_id);
   if (ctx.closed) {
-    throw data_error(fmt::format("ticket {}: session {} is closed; open a new session",
-                                 pass.ticket, session_id));
+    throw data_error(fmt::format("ticket {}: session {} is closed; open a new session", pass.ticket,
+                                 session_id));
   }
   check_pass(pass, ctx.scale, ctx.unit);
   try {
@@ -282,18 +310,29 @@ long long SqliteStore::add_pass(long long session_id, const Pass& pass) {
     long long other = dup ? q.i64(0) : 0;
     q.reset();
     if (dup) {
-      throw data_error(fmt::format("ticket {}: already in session {} (pass {}); tickets are "
-                                   "unique within a session",
-                                   pass.ticket, session_id, other));
+      throw data_error(
+          fmt::format("ticket {}: already in session {} (pass {}); tickets are "
+                      "unique within a session",
+                      pass.ticket, session_id, other));
     }
     throw;
   }
 }
 
 RowBuilder& SqliteStore::bind_pass(RowBuilder& b, long long session_id, const Pass& pass) {
-  return b.i(session_id).t(to_string(pass.kind)).t(pass.setting).t(pass.ticket)
-      .t(pass.weighed_at).r(pass.steer).r(pass.drive).r(pass.trailer).r(pass.gross)
-      .t(pass.scale_id).t(pass.entered_by).t(pass.entered_at ? *pass.entered_at : now_);
+  // Every text lives in `pass` or the store until the row is stored: bound without a copy.
+  return b.i(session_id)
+      .kept(to_string(pass.kind))
+      .kept(pass.setting)
+      .kept(pass.ticket)
+      .kept(pass.weighed_at)
+      .r(pass.steer)
+      .r(pass.drive)
+      .r(pass.trailer)
+      .r(pass.gross)
+      .kept(pass.scale_id)
+      .kept(pass.entered_by)
+      .kept(pass.entered_at ? std::string_view(*pass.entered_at) : std::string_view(now_));
 }
 
 std::vector<long long> SqliteStore::add_passes(long long session_id,
@@ -318,7 +357,12 @@ std::vector<long long> SqliteStore::add_passes(long long session_id,
     ids.push_back(seq);
   }
   try {
-    st.run(fmt::format("adding tickets {} to {}", passes.front().ticket, passes.back().ticket));
+    st.run("adding tickets");
+  } catch (const Error& e) {
+    st.reset();
+    // The tickets are named only now: formatting them for every batch was a measurable cost.
+    throw Error(e.code(), fmt::format("{} (tickets {} to {})", e.what(), passes.front().ticket,
+                                      passes.back().ticket));
   } catch (...) {
     st.reset();
     throw;
@@ -331,8 +375,9 @@ std::vector<long long> SqliteStore::add_passes(long long session_id,
 
 long long SqliteStore::void_pass(long long pass_id, const std::string& reason,
                                  const std::optional<std::string>& by, const std::string& at) {
-  Stmt& q = stmt("SELECT p.ticket, c.id FROM passes p LEFT JOIN corrections c "
-                 "ON c.pass_id = p.id WHERE p.id = ?");
+  Stmt& q = stmt(
+      "SELECT p.ticket, c.id FROM passes p LEFT JOIN corrections c "
+      "ON c.pass_id = p.id WHERE p.id = ?");
   q.bind(1, pass_id);
   if (!q.step("finding a pass")) {
     q.reset();
@@ -341,11 +386,17 @@ long long SqliteStore::void_pass(long long pass_id, const std::string& reason,
   std::string ticket = q.text(0);
   bool already = !q.is_null(1);
   q.reset();
-  if (already) throw data_error(fmt::format("pass {} (ticket {}): already voided", pass_id, ticket));
+  if (already)
+    throw data_error(fmt::format("pass {} (ticket {}): already voided", pass_id, ticket));
   if (reason.empty()) {
     throw data_error(fmt::format("pass {} (ticket {}): a void needs a reason", pass_id, ticket));
   }
-  return RowBuilder(*this, "corrections").i(pass_id).t("void").t(reason).t(by).t(when(at))
+  return RowBuilder(*this, "corrections")
+      .i(pass_id)
+      .t("void")
+      .t(reason)
+      .t(by)
+      .t(when(at))
       .append(fmt::format("voiding pass {}", pass_id));
 }
 
@@ -368,18 +419,24 @@ long long SqliteStore::record_report(const IssuedReport& r) {
   q.reset();
   if (dup) throw data_error("report " + r.report_id + ": already recorded");
   return RowBuilder(*this, "issued_reports")
-      .i(r.session_id).t(r.report_id).t(r.pdf_sha256).t(r.key_fingerprint).t(r.signed_by)
-      .t(when(r.issued_at)).append("recording report " + r.report_id);
+      .i(r.session_id)
+      .t(r.report_id)
+      .t(r.pdf_sha256)
+      .t(r.key_fingerprint)
+      .t(r.signed_by)
+      .t(when(r.issued_at))
+      .append("recording report " + r.report_id);
 }
 
 std::vector<IssuedReport> SqliteStore::list_reports(std::optional<long long> session_id) {
   std::vector<IssuedReport> out;
-  Stmt& q = stmt("SELECT id, session_id, report_id, pdf_sha256, key_fingerprint, signed_by, "
-                 "issued_at FROM issued_reports WHERE ?1 IS NULL OR session_id = ?1 ORDER BY id");
+  Stmt& q = stmt(
+      "SELECT id, session_id, report_id, pdf_sha256, key_fingerprint, signed_by, "
+      "issued_at FROM issued_reports WHERE ?1 IS NULL OR session_id = ?1 ORDER BY id");
   q.bind(1, session_id);
   while (q.step("listing reports")) {
-    out.push_back(IssuedReport{q.i64(0), q.i64(1), q.text(2), q.text(3), q.text(4),
-                               q.opt_text(5), q.text(6)});
+    out.push_back(IssuedReport{q.i64(0), q.i64(1), q.text(2), q.text(3), q.text(4), q.opt_text(5),
+                               q.text(6)});
   }
   q.reset();
   return out;

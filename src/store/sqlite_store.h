@@ -32,6 +32,11 @@ class RowBuilder {
   RowBuilder& t(const std::string& v) { return t(std::string_view(v)); }
   RowBuilder& t(const char* v) { return t(std::string_view(v)); }
   RowBuilder& t(const std::optional<std::string>& v);
+  // Text whose bytes stay valid until the row is stored (append(), or stage() and the batch's
+  // run): bound without SQLite's copy (SQLITE_STATIC), for the import's hot path.
+  RowBuilder& kept(std::string_view v);
+  RowBuilder& kept(const std::string& v) { return kept(std::string_view(v)); }
+  RowBuilder& kept(const std::optional<std::string>& v);
   // Hashes, inserts and advances the chain; returns the new row's id.
   long long append(std::string_view what);
   // Batch rows: binds this row's hash, computed on `prev`, and returns it; the caller runs the
@@ -41,6 +46,7 @@ class RowBuilder {
 
  private:
   void expect(ColType type);
+  RowBuilder& null_of(ColType type);  // binds and encodes NULL for the next column
   void check_complete() const;
   SqliteStore& s_;
   struct Writer* w_;
@@ -57,10 +63,10 @@ struct Writer {
   std::unique_ptr<Stmt> insert;
   int first_col_param = 0;  // parameter index of the first chained column
   int hash_param = 0;
-  long long next_id = 0;    // 0: not read yet in this transaction
-  int params_per_row = 0;   // id[, seq], hash and the chained columns
-  std::string values_head;  // "INSERT INTO t (id, ..., col) VALUES "
-  std::string tuple;        // "(?, ?, ...)": one row's parameters
+  long long next_id = 0;                     // 0: not read yet in this transaction
+  int params_per_row = 0;                    // id[, seq], hash and the chained columns
+  std::string values_head;                   // "INSERT INTO t (id, ..., col) VALUES "
+  std::string tuple;                         // "(?, ?, ...)": one row's parameters
   std::vector<std::unique_ptr<Stmt>> batch;  // [n]: INSERT of n rows (see batch_insert)
 };
 
@@ -99,6 +105,7 @@ class SqliteStore final : public Store {
   void begin_read() override;
   void commit() override;
   void rollback() noexcept override;
+  void begin_bulk() override;
 
   long long add_scale(const ScaleInfo& info, WeightUnit unit, const std::optional<std::string>& by,
                       const std::string& at) override;
@@ -154,7 +161,7 @@ class SqliteStore final : public Store {
   void load_head();
   Writer& writer(const char* table);
   Stmt& batch_insert(const char* table, size_t rows);  // cached n-row INSERT of a seq table
-  Stmt& stmt(const std::string& sql);  // cached prepared statement
+  Stmt& stmt(const std::string& sql);                  // cached prepared statement
   std::string when(const std::string& at) const { return at.empty() ? now_ : at; }
   std::optional<ScaleRecord> scale_by_id(long long id);
   std::optional<RigRecord> rig_by_id(long long id);
@@ -178,6 +185,8 @@ class SqliteStore final : public Store {
   std::map<long long, ScaleRecord> scale_cache_;
   std::map<long long, RigRecord> rig_cache_;
   SessionCtx session_ctx_;
+  std::vector<std::string> lifted_guards_;  // CREATE TRIGGER text, put back by commit()
+  long long cache_before_ = 0;              // PRAGMA cache_size before begin_bulk
   Sha256 sha_;
   Encoder enc_;
 };

@@ -39,7 +39,7 @@ struct Inspection {
   std::optional<std::string> inspector;
   std::optional<std::string> notes;
   std::optional<std::string> entered_by;
-  std::string entered_at;           // empty on input: now
+  std::string entered_at;  // empty on input: now
 };
 
 struct RigRecord {
@@ -104,7 +104,7 @@ struct IssuedReport {
   std::string pdf_sha256;       // 64 lowercase hex digits
   std::string key_fingerprint;  // signer public-key fingerprint
   std::optional<std::string> signed_by;
-  std::string issued_at;        // empty on input: now
+  std::string issued_at;  // empty on input: now
 };
 
 // Everything recorded about one session, for `session show` and the report.
@@ -115,9 +115,9 @@ struct SessionHistory {
   std::string opened_at;
   std::optional<std::string> closed_by, closed_at;
   std::string rig_name;
-  std::vector<Correction> corrections;          // voids
+  std::vector<Correction> corrections;           // voids
   std::vector<PassCorrection> pass_corrections;  // oldest first
-  std::vector<Inspection> inspections;  // of the session's scale, oldest first
+  std::vector<Inspection> inspections;           // of the session's scale, oldest first
   std::vector<IssuedReport> reports;
 };
 
@@ -125,14 +125,14 @@ struct SessionHistory {
 // signed by the station key over the message of report/checkpoint.h.
 struct Checkpoint {
   long long id = 0;
-  long long seq = 0;             // its own chain position (rows + 1: it follows what it signs)
-  long long rows = 0;            // it covers chain positions 1..rows
-  std::string head;              // hex SHA-256 of row `rows`
-  std::string public_key;        // raw Ed25519 key, 64 hex digits
-  std::string key_fingerprint;   // report/signer.h fingerprint()
-  std::string signature;         // 64-byte Ed25519 signature, 128 hex digits
+  long long seq = 0;            // its own chain position (rows + 1: it follows what it signs)
+  long long rows = 0;           // it covers chain positions 1..rows
+  std::string head;             // hex SHA-256 of row `rows`
+  std::string public_key;       // raw Ed25519 key, 64 hex digits
+  std::string key_fingerprint;  // report/signer.h fingerprint()
+  std::string signature;        // 64-byte Ed25519 signature, 128 hex digits
   std::optional<std::string> signed_by;
-  std::string signed_at;         // ISO 8601, as signed
+  std::string signed_at;  // ISO 8601, as signed
 };
 
 // The chain's extent as this connection sees it: positions 1..rows, `head` the hex hash of
@@ -145,7 +145,7 @@ struct ChainHead {
 // One way the store's schema (sqlite_schema: tables, indexes, triggers, views) differs from
 // what its migrations 1..PRAGMA user_version make.
 struct SchemaDifference {
-  std::string type;     // "table", "index", "trigger", "view", or "pragma"
+  std::string type;  // "table", "index", "trigger", "view", or "pragma"
   std::string name;
   std::string problem;  // plain words: "is missing", "was not made by the migrations", ...
 };
@@ -153,14 +153,14 @@ struct SchemaDifference {
 // Result of walking the chain. When !ok, table/id/ticket/seq name the first bad row.
 struct ChainCheck {
   bool ok = true;
-  long long rows = 0;       // rows verified (all of them when ok)
-  std::string head;         // hex SHA-256 of the last row ("" for an empty store)
+  long long rows = 0;  // rows verified (all of them when ok)
+  std::string head;    // hex SHA-256 of the last row ("" for an empty store)
   std::string table;
   long long id = 0;
   long long seq = 0;
   std::optional<std::string> ticket;
-  std::string problem;      // what does not match, in plain words
-  int walkers = 1;          // threads that walked the chain (2: the two-half walk answered)
+  std::string problem;  // what does not match, in plain words
+  int walkers = 1;      // threads that walked the chain (2: the two-half walk answered)
 };
 
 class Store {
@@ -171,6 +171,11 @@ class Store {
   virtual void begin_read() = 0;
   virtual void commit() = 0;
   virtual void rollback() noexcept = 0;
+  // Within the current write transaction, prepares for storing many rows (import): a larger
+  // page cache, and the per-row INSERT guards of passes and sessions lifted until commit(),
+  // which puts them back before it commits (rollback() restores them with everything else).
+  // See SqliteStore::begin_bulk for why the guards stay exactly as strong.
+  virtual void begin_bulk() = 0;
 
   // Scales. `info.last_inspected`, when set, is recorded as a first inspection.
   virtual long long add_scale(const ScaleInfo& info, WeightUnit unit,
@@ -262,7 +267,7 @@ class Store {
 };
 
 struct Options {
-  bool create = false;          // init: create the file and apply migrations
+  bool create = false;  // init: create the file and apply migrations
   // 5 s: long enough for another operator's single command to commit (a pass add is ~1 ms),
   // short enough that a stuck process is reported instead of hanging (common practice).
   int busy_timeout_ms = 5000;
@@ -285,7 +290,10 @@ class Txn {
  public:
   enum Kind { read, write };
   Txn(Store& s, Kind k) : s_(s) {
-    if (k == write) s_.begin_write(); else s_.begin_read();
+    if (k == write)
+      s_.begin_write();
+    else
+      s_.begin_read();
   }
   ~Txn() {
     if (!done_) s_.rollback();

@@ -44,14 +44,23 @@ std::vector<std::string> shared(const std::vector<AuditItem>& items) {
 }
 
 struct Streamed {
-  std::string out, pdf;
+  std::string out;
+  std::vector<std::string> pdf;
   std::size_t kept = 0, spilled = 0;
   AuditResult counts;
 };
 
-Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f,
-                bool pdf = false) {
-  AuditStreamWriter w(f, false, 50, pdf);
+Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f, bool pdf = false,
+                std::size_t pdf_pages = kAuditPdfPagesPerVolume, bool sink = false) {
+  AuditStreamWriter w(f, false, 50, pdf, pdf_pages);
+  std::vector<std::string> sunk;
+  if (sink) {
+    w.set_pdf_sink([&sunk](std::size_t k, std::size_t n, std::string bytes) {
+      CHECK(k == sunk.size() + 1);
+      CHECK(k <= n);
+      sunk.push_back(std::move(bytes));
+    });
+  }
   Auditor a(clean_options());
   a.on_final([&](ItemAudit&& ia) { w.add(std::move(ia)); });
   a.limit_reuse_to(shared(items));
@@ -66,7 +75,8 @@ Streamed stream(const std::vector<AuditItem>& items, AuditStreamWriter::Format f
   std::ostringstream os;
   w.finish(rep, os);
   s.out = os.str();
-  s.pdf = w.take_pdf();
+  s.pdf = sink ? sunk : w.take_pdf();
+  if (sink) CHECK(w.take_pdf().empty());
   s.counts = rep.result;
   return s;
 }
@@ -121,15 +131,65 @@ TEST_CASE("streamed audit output equals the in-memory audit, byte for byte") {
     CHECK(stream(items, AuditStreamWriter::Format::text).out == audit_text(rep, false));
     CHECK(stream(items, AuditStreamWriter::Format::json).out == audit_json(rep).dump(2));
     // The summary PDF drawn from the same pass (`audit --all --pdf`), beside either output.
-    const std::string pdf = audit_pdf(rep);
+    const std::vector<std::string> pdf = audit_pdf(rep);
+    CHECK(pdf.size() == 1);
     for (auto f : {AuditStreamWriter::Format::text, AuditStreamWriter::Format::json}) {
       CAPTURE(static_cast<int>(f));
       const Streamed s = stream(items, f, true);
       CHECK(s.pdf == pdf);
       CHECK(s.out == (f == AuditStreamWriter::Format::text ? audit_text(rep, false)
-                                                          : audit_json(rep).dump(2)));
+                                                           : audit_json(rep).dump(2)));
     }
   }
+}
+
+namespace {
+std::size_t count_of(const std::string& hay, const std::string& needle) {
+  std::size_t n = 0;
+  for (auto at = hay.find(needle); at != std::string::npos; at = hay.find(needle, at + 1)) ++n;
+  return n;
+}
+}  // namespace
+
+// libharu holds at most 8 191 pages a document (HPDF_LIMIT_MAX_ARRAY, hpdf_consts.h of
+// libharu 2.3.0), which a whole store's audit exceeds: the summary is split into volumes of a
+// given page count, each a whole PDF opening with the same summary. Checked here at a small
+// limit so that no 250 000-session store is needed.
+TEST_CASE("audit summary PDF: volumes at a page limit, streamed and in memory alike") {
+  const std::vector<AuditItem> items = mixed_items(240, 2, 0);
+  const AuditReport rep = in_memory(items);
+  const std::vector<std::string> whole = audit_pdf(rep);
+  REQUIRE(whole.size() == 1);
+  // "/Type /Page" counts page objects and the one page tree ("/Type /Pages").
+  const std::size_t pages = count_of(whole[0], "/Type /Page") - count_of(whole[0], "/Type /Pages");
+  CAPTURE(pages);
+  REQUIRE(pages > 12);
+  const std::size_t limit = 5;
+  const std::vector<std::string> vols = audit_pdf(rep, limit);
+  CHECK(vols.size() >= (pages + limit - 1) / limit);
+  std::size_t total = 0;
+  for (const auto& v : vols) {
+    CHECK(v.rfind("%PDF-", 0) == 0);
+    CHECK(v.find("%%EOF") != std::string::npos);
+    const std::size_t n = count_of(v, "/Type /Page") - count_of(v, "/Type /Pages");
+    CHECK(n >= 1);
+    CHECK(n <= limit);
+    total += n;
+  }
+  // Every volume repeats the summary, so the set has more pages than the single document.
+  CHECK(total > pages);
+  CHECK(audit_pdf(rep, limit) == vols);  // deterministic
+  for (auto f : {AuditStreamWriter::Format::text, AuditStreamWriter::Format::json}) {
+    CAPTURE(static_cast<int>(f));
+    const Streamed s = stream(items, f, true, limit);
+    CHECK(s.pdf == vols);
+    // Each volume handed over as soon as it is drawn (what `audit --all --pdf` writes).
+    CHECK(stream(items, f, true, limit, true).pdf == vols);
+    CHECK(s.out == (f == AuditStreamWriter::Format::text ? audit_text(rep, false)
+                                                         : audit_json(rep).dump(2)));
+  }
+  // A limit too small for the summary and a finding is refused, not looped on.
+  CHECK_THROWS_AS(audit_pdf(rep, 1), Error);
 }
 
 TEST_CASE("streamed audit's temporary files hold every field and stay small") {
@@ -199,8 +259,8 @@ TEST_CASE("store: shared_tickets names the shared tickets, streamed output equal
     const long long id = ts.store->open_session(ns);
     // Session 3 reuses ticket A-1002 of session 1; the others have tickets of their own.
     const std::string t2 = k == 1 ? "A-1002" : "B-" + std::to_string(k) + "2";
-    ts.store->add_pass(id, make_pass(PassKind::unhitched, "B-" + std::to_string(k) + "1", 4600,
-                                     3900));
+    ts.store->add_pass(id,
+                       make_pass(PassKind::unhitched, "B-" + std::to_string(k) + "1", 4600, 3900));
     ts.store->add_pass(id, make_pass(PassKind::hitched, t2, 4340, 4960, 6200));
   }
   ts.store->commit();
@@ -214,8 +274,8 @@ TEST_CASE("store: shared_tickets names the shared tickets, streamed output equal
       CAPTURE(one.value_or(0));
       AuditReport rep = audit_store(*ts.store, "store.db", one, clean_options());
       rep.trusted_keys = {"d75a 9801 82b1 0ab7"};
-      const std::string want = f == AuditStreamWriter::Format::text ? audit_text(rep, false)
-                                                                    : audit_json(rep).dump(2);
+      const std::string want =
+          f == AuditStreamWriter::Format::text ? audit_text(rep, false) : audit_json(rep).dump(2);
       AuditStreamWriter w(f, false, 50, true);
       std::ostringstream os;
       AuditResult counts = audit_store_streamed(*ts.store, "store.db", one, clean_options(),

@@ -44,8 +44,8 @@ TEST_CASE("every chained table refuses update, delete and replace") {
     std::string update = std::string("UPDATE ") + t.name + " SET hash = hash";
     std::string del = std::string("DELETE FROM ") + t.name;
     std::string cols, vals;
-    std::string replace = std::string("INSERT OR REPLACE INTO ") + t.name + " SELECT * FROM " +
-                          t.name + " LIMIT 1";
+    std::string replace =
+        std::string("INSERT OR REPLACE INTO ") + t.name + " SELECT * FROM " + t.name + " LIMIT 1";
     for (const std::string& sql : {update, del, replace}) {
       CAPTURE(sql);
       std::string err = ts.raw(sql);
@@ -53,4 +53,45 @@ TEST_CASE("every chained table refuses update, delete and replace") {
     }
   }
   CHECK(ts.store->check_chain({}).ok);
+}
+
+// `import` lifts the passes' and sessions' INSERT guards inside its own write transaction
+// (Store::begin_bulk): whatever it commits or rolls back, the store keeps every guard, with
+// the same SQL text (check_schema), and a stock connection's INSERT OR REPLACE is refused.
+TEST_CASE("bulk import: the INSERT guards are back after commit and after rollback") {
+  TempStore ts;
+  long long s = seed_session(*ts.store);
+  add_demo_passes(*ts.store, s);
+  auto guards_and_refusal = [&ts] {
+    ts.store->begin_read();
+    CHECK(ts.store->check_schema().empty());
+    ts.store->commit();
+    for (const char* t : {"passes", "sessions"}) {
+      CAPTURE(t);
+      const std::string err =
+          ts.raw(std::string("INSERT OR REPLACE INTO ") + t + " SELECT * FROM " + t + " LIMIT 1");
+      CHECK(err.find("append-only") != std::string::npos);
+    }
+  };
+  // Rolled back (a refused import): the drop is undone with everything else.
+  ts.store->begin_write();
+  ts.store->begin_bulk();
+  ts.store->rollback();
+  guards_and_refusal();
+  // Committed: the guards are put back before COMMIT.
+  ts.store->begin_write();
+  ts.store->begin_bulk();
+  Pass p = ts.store->load_session(s).passes[0];
+  p.ticket = "T-bulk-1";
+  p.id.reset();
+  ts.store->add_passes(s, {p});
+  ts.store->commit();
+  guards_and_refusal();
+  CHECK(ts.store->check_chain({}).ok);
+  // Inside the bulk transaction the store's own plain INSERT still refuses a stored key.
+  ts.store->begin_write();
+  ts.store->begin_bulk();
+  CHECK_THROWS_AS(ts.store->add_passes(s, {p}), Error);
+  ts.store->rollback();
+  guards_and_refusal();
 }
