@@ -17,6 +17,7 @@
 #include "format/plan_output.h"
 #include "format/result_units.h"
 #include "format/session_json.h"
+#include "ops/plan_session.h"
 #include "report/key_files.h"
 
 namespace sp::cli {
@@ -60,45 +61,6 @@ std::vector<double> parse_loads(const std::string& text, const char* flag, std::
   return v;
 }
 
-// The loads with the bars slack from a session: the reconciled values when the engine can
-// solve them (they use every pass), else the first unhitched and hitched readings as keyed.
-// A passed fit also gives the back-solved lengths, so the plan's target moment is the one
-// `reconcile` recommends (the same model on the same numbers); `labels` gets the verdict.
-PlanLoads loads_from_session(const Session& s, std::vector<std::string>& notes, TowVehicle& tow,
-                             Trailer& trailer, PlanLabels& labels) {
-  PlanLoads l;
-  try {
-    const ReconcileResult r = reconcile(s);
-    labels.weighed = true;
-    labels.verdict = r.verdict;
-    labels.verdict_reason = r.verdict_reason;
-    if (r.tow_steer && r.tow_drive && r.tongue_load && r.trailer_weight) {
-      const double t = r.tongue_load->value;
-      l.unhitched = AxleLoads{r.tow_steer->value, r.tow_drive->value, 0};
-      l.tongue = t;
-      l.trailer_weight = r.trailer_weight->value;
-      if (r.fit && !r.fit->passed) {
-        notes.push_back(
-            "The session's readings fail their fit test (see scaleproof reconcile): "
-            "fix the flagged reading or length before relying on this plan.");
-      } else {
-        if (r.rear_axle_to_ball) tow.rear_axle_to_ball = r.rear_axle_to_ball->value;
-        if (r.ball_to_axle) trailer.ball_to_axle = r.ball_to_axle->value;
-      }
-      return l;
-    }
-  } catch (const Error&) {
-    // Fall through to the raw readings; parse errors were already raised by the reader.
-  }
-  for (const Pass& p : s.passes) {
-    if (p.voided) continue;
-    if (p.kind == PassKind::unhitched && !l.unhitched) l.unhitched = AxleLoads{p.steer, p.drive, 0};
-    if (p.kind == PassKind::hitched && !l.hitched)
-      l.hitched = AxleLoads{p.steer, p.drive, p.trailer.value_or(0)};
-  }
-  return l;
-}
-
 void override(std::optional<double>& target, const std::optional<double>& flag) {
   if (flag) target = flag;
 }
@@ -122,7 +84,7 @@ void run_plan(const PlanFlags& f, const Context& ctx) {
     tow = s.tow_vehicle;
     trailer = s.trailer;
     units = s.units;
-    loads = loads_from_session(s, notes, tow, trailer, labels);
+    loads = ops::loads_from_session(s, notes, tow, trailer, labels);
     from_session = loads.unhitched && loads.tongue && loads.trailer_weight && !loads.hitched;
   } else {
     auto wu = parse_weight_unit(f.weight_unit);

@@ -26,6 +26,7 @@
 #include "core/error.h"
 #include "engine/reconcile.h"
 #include "format/session_json.h"
+#include "ops/issue_store.h"
 #include "report/issue.h"
 #include "report/key_files.h"
 #include "report/pdf_doc.h"
@@ -93,18 +94,6 @@ class Written {
   bool keep_ = false;
 };
 
-store::IssuedReport report_row(long long session, const report::IssuedReport& rep,
-                               const ReportOpts& o, const report::IssueOptions& opt) {
-  store::IssuedReport row;
-  row.session_id = session;
-  row.report_id = rep.id;
-  row.pdf_sha256 = report::to_hex(report::sha256(rep.pdf));
-  row.key_fingerprint = rep.fingerprint;
-  row.signed_by = opt.signed_by;
-  row.issued_at = o.issued_at;  // empty: the store records the time of recording
-  return row;
-}
-
 // The reports to write, in the order given; usage errors for a wrong combination of options.
 std::vector<Planned> plan_outputs(const ReportOpts& o) {
   const bool from_file = !o.file.empty();
@@ -133,19 +122,6 @@ std::vector<Planned> plan_outputs(const ReportOpts& o) {
   if (o.out.empty())
     throw usage_error("report: --out is required (or --out-dir DIR with --session)");
   return {{from_file ? 0 : o.sessions[0], o.out, o.out + ".sig"}};
-}
-
-// The store's head and latest checkpoint, read in the transaction that loads the sessions: the
-// reports are issued from exactly this state (their own rows come after it).
-report::LedgerAnchor ledger_anchor(store::Store& db) {
-  const store::ChainHead head = db.chain_head();
-  report::LedgerAnchor a{head.rows, head.head, std::nullopt};
-  if (auto c = db.latest_checkpoint()) {
-    a.checkpoint = report::CheckpointRef{c->seq,       c->rows,           c->head,
-                                         c->signed_at, c->signed_by,      c->key_fingerprint,
-                                         c->public_key, c->signature};
-  }
-  return a;
 }
 
 }  // namespace
@@ -196,7 +172,7 @@ void register_report(CLI::App& app, Context& ctx) {
       db = store::open_sqlite_store(resolve_db_path(ctx), store::Options{});
       store::Txn txn(*db, store::Txn::read);
       for (const Planned& p : plan) sessions.push_back(db->load_session(p.session));
-      opt.ledger = ledger_anchor(*db);
+      opt.ledger = ops::ledger_anchor(*db);
       txn.commit();
     }
 
@@ -213,19 +189,14 @@ void register_report(CLI::App& app, Context& ctx) {
                                                       report::results_json(result), *signer, named);
       written.write(plan[i].pdf, rep.pdf);
       written.write(plan[i].sig, rep.pdf_signature);
-      if (db) rows.push_back(report_row(plan[i].session, rep, *o, opt));
+      if (db) rows.push_back(ops::report_row(plan[i].session, rep, opt.signed_by, o->issued_at));
       ids.push_back(rep.id);
       fingerprint = rep.fingerprint;
     }
     written.sync();
     if (db) {
       store::Txn txn(*db, store::Txn::write);
-      for (const store::IssuedReport& row : rows) {
-        bool known = false;
-        for (const auto& r : db->list_reports(row.session_id))
-          known = known || r.report_id == row.report_id;
-        if (!known) db->record_report(row);  // an identical re-issue is the same report
-      }
+      for (const store::IssuedReport& row : rows) ops::record_report_once(*db, row);
       txn.commit();
     }
     written.keep();

@@ -22,5 +22,8 @@ void register_import(CLI::App& app, Context& ctx);
 void register_export(CLI::App& app, Context& ctx);
 void register_check_store(CLI::App& app, Context& ctx);
 void register_audit(CLI::App& app, Context& ctx);  // claim-file audit (issue #5)
+// Station console in the browser (issue #13): cmd_serve.cpp, cmd_operator.cpp
+void register_serve(CLI::App& app, Context& ctx);
+void register_operator(CLI::App& app, Context& ctx);
 
 }  // namespace sp::cli

@@ -76,6 +76,8 @@ int run(int argc, char** argv) {
   sp::cli::register_export(app, ctx);
   sp::cli::register_check_store(app, ctx);
   sp::cli::register_audit(app, ctx);
+  sp::cli::register_serve(app, ctx);
+  sp::cli::register_operator(app, ctx);
   hide_required_defaults(app);
 
   try {

@@ -17,4 +17,6 @@ const std::vector<File>& report_files();
 // The report's faces cut down to WinAnsiEncoding (cmake/fonts.cmake): DejaVuSans.ttf,
 // DejaVuSans-Bold.ttf, DejaVuSansMono.ttf.
 const std::vector<File>& font_files();
+// src/serve/assets/*: the console's stylesheet (served at /assets/NAME).
+const std::vector<File>& console_files();
 }  // namespace sp::embedded

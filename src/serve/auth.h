@@ -1,0 +1,60 @@
+// Operators and their passwords, sign-in tokens and CSRF tokens for the console.
+//
+// Operators file: one operator per line, `NAME:pbkdf2-sha256:ITERATIONS:SALT_HEX:HASH_HEX`,
+// written by `scaleproof operator add` (lines starting with '#' and empty lines are ignored).
+// The hash is PBKDF2-HMAC-SHA256 (RFC 8018 §5.2, libcrypto PKCS5_PBKDF2_HMAC) over the
+// password with a 16-byte random salt, 32-byte output. kPbkdf2Iterations = 600 000: OWASP
+// Password Storage Cheat Sheet (2023), PBKDF2-HMAC-SHA256. A name is 1..64 characters without
+// ':' or control characters (it goes into the ledger as entered_by).
+// CSRF: a token is HMAC-SHA256(server secret, visitor id) in hex: the visitor id lives in a
+// cookie, the secret only in the process (new at every start), so a page of another site can
+// neither read nor forge it. Tokens compare in constant time (CRYPTO_memcmp).
+#pragma once
+#include <map>
+#include <mutex>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace sp::serve {
+
+inline constexpr int kPbkdf2Iterations = 600000;
+
+struct OperatorEntry {
+  std::string name;
+  int iterations = kPbkdf2Iterations;
+  std::string salt;  // raw bytes
+  std::string hash;  // raw 32 bytes
+};
+
+// Random bytes from the OS generator (RAND_bytes); throws sp::Error(internal) when it fails.
+std::string random_bytes(std::size_t n);
+std::string hex(const std::string& bytes);
+
+// Checks a name (data_error naming `--name`).
+void check_operator_name(const std::string& name);
+// One line of the file for `name` and `password` (new random salt); no newline.
+std::string operator_line(const std::string& name, const std::string& password,
+                          int iterations = kPbkdf2Iterations);
+// Parses the file's text; data_error "<file>:<line>: ..." for a malformed line or a name twice.
+std::vector<OperatorEntry> parse_operators(const std::string& text, const std::string& file);
+// The password is the operator's (constant-time compare of the derived hash).
+bool password_matches(const OperatorEntry& op, const std::string& password);
+
+// HMAC-SHA256 of `message` under `key`, hex.
+std::string hmac_hex(const std::string& key, const std::string& message);
+bool same_token(const std::string& a, const std::string& b);
+
+// Signed-in operators by sign-in token (random, in a cookie). Thread-safe.
+class SignIns {
+ public:
+  std::string sign_in(const std::string& name);  // returns the new token
+  std::optional<std::string> who(const std::string& token) const;
+  void sign_out(const std::string& token);
+
+ private:
+  mutable std::mutex mu_;
+  std::map<std::string, std::string> by_token_;
+};
+
+}  // namespace sp::serve
