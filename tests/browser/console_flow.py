@@ -428,6 +428,18 @@ class Flow:
         self.get("/sessions/%s/plan" % self.session_id)
         svg = self.el("svg#plan-chart")
         self.expect(svg.get_attribute("role") == "img", "#plan-chart has no role=img")
+        # Every rating the plan carries (the API's plan JSON) is drawn and named in the chart,
+        # and so is the target moment.
+        with urllib.request.urlopen(self.base + "api/sessions/%s/plan" % self.session_id,
+                                    timeout=10) as r:
+            plan = json.loads(r.read())
+        words = self.driver.execute_script("return arguments[0].textContent;", svg)
+        missing = [g["label"] for g in plan["ratings"]
+                   if "%s %.0f" % (g["label"].split(" vs ")[-1], g["limit"]) not in words]
+        self.expect(plan["ratings"] and not missing,
+                    "ratings not drawn in #plan-chart: %s" % missing)
+        if plan.get("target"):
+            self.expect("target" in words, "#plan-chart does not mark the target")
         self.shot("10-plan")
         self.get("/sessions/%s/history" % self.session_id)
         body = self.text()
