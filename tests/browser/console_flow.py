@@ -20,8 +20,8 @@ The whole operator flow of issue 13, through the element ids of the console cont
      `scaleproof verify --pubkey`; the verify page says it holds, and fails with one byte flipped;
   8. one form post with JavaScript off (chromium's managed content setting);
   9. SIGINT stops the server with exit 0; `scaleproof check-store` is clean afterwards.
-Screenshots of every page go to DIR/screenshots (and to --screenshots-to when given, the
-committed set for the README). A failed step prints its name, the page's URL and text, and
+Screenshots of every page go to DIR/screenshots; --screenshots-to copies one per page (COMMITTED
+below) there, the committed set for the README. A failed step prints its name, the page's URL and text, and
 exits 1. Exit 77 (ctest: skipped) only when the binary has no `serve` subcommand at all.
 Needs Debian's chromium, chromium-driver and python3-selenium (scripts/setup-debian); selenium
 4.8's Service API (shared/notes/libraries.md, "Browser console").
@@ -51,6 +51,12 @@ CHROMEDRIVER = "/usr/bin/chromedriver"
 START_LINE = re.compile(r"^scaleproof console: http://127\.0\.0\.1:(\d+)/$")
 MIS_KEYED = "sessions/03-mis-keyed-reading.json"  # data-demo/, planted error in truth/03-...
 RIG, SCALE = "GV-1", "QX-1"  # demo.json: the rig made from that session, the station's scale
+
+
+# The committed set (reports/sample/console/, for the README): one shot per page and the two
+# moments of the desk that matter; the build folder keeps every shot.
+COMMITTED = ("01-sessions", "04-session-new", "07-desk-flag", "09-desk-re-keyed", "10-plan",
+             "11-history", "12-ledger", "14-report-issued", "16-verify-holds", "17-verify-fails")
 
 
 class StepFailed(Exception):
@@ -621,7 +627,8 @@ class Flow:
             for old in glob.glob(os.path.join(dest, "*.png")):
                 os.remove(old)
             for name in self.shot_names:
-                shutil.copy(os.path.join(self.shots, name + ".png"), dest)
+                if name in COMMITTED:
+                    shutil.copy(os.path.join(self.shots, name + ".png"), dest)
             print("screenshots copied to %s" % dest)
         print("console flow: all %d steps passed; screenshots in %s" % (len(self.passed),
                                                                          self.shots))
