@@ -11,7 +11,8 @@ The whole operator flow of issue 13, through the element ids of the console cont
   3. sessions list and search; open a session for the demo's rig GV-1 on scale QX-1;
   4. key the passes of data-demo/sessions/03-mis-keyed-reading.json as they were keyed (drive of
      ticket QX-4390 keyed 4400 where the scale showed 4040, data-demo/truth/), the first pass from
-     the keyboard alone (Tab / Enter);
+     the keyboard alone (Tab / Enter); a reading off the scale division is refused by name and
+     nothing is stored;
   5. the desk names the flagged reading; void it and re-key it as ticket QX-4392 (4040): the
      verdict turns. The verdicts and flag codes expected are `scaleproof reconcile --json` on the
      same passes (one library, same words on every surface: RULES.md);
@@ -368,6 +369,21 @@ class Flow:
                                            "drive", "trailer")}
             if i == 0:
                 self.key_by_keyboard(entry)
+            elif i == 1:
+                # A reading off the scale division is refused with the field named, nothing is
+                # stored, and the desk keeps the values as keyed so they can be fixed.
+                off = dict(entry, steer=entry["steer"] + 1)
+                self.fill_pass(off)
+                body = self.text()
+                self.expect("steer" in body and "division" in body,
+                            "a steer reading off the division was not refused by name")
+                self.expect(not self.els("#passes tr[data-ticket='%s']" % p["ticket"]),
+                            "the refused pass %s was stored" % p["ticket"])
+                kept = self.el("form#pass-form [name=steer]").get_attribute("value")
+                self.expect(kept == str(off["steer"]), "the desk dropped the keyed steer "
+                            "reading (shows %r)" % kept)
+                self.shot("06-desk-refused")
+                self.fill_pass(entry)
             else:
                 self.fill_pass(entry)
             self.pass_row(p["ticket"])
