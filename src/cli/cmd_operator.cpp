@@ -24,7 +24,7 @@ namespace {
 
 std::string read_password() {
   const bool tty = stdin_is_terminal();
-  termios old {};
+  termios old{};
   if (tty) {
     std::cerr << "password: " << std::flush;
     tcgetattr(STDIN_FILENO, &old);
@@ -47,12 +47,14 @@ std::string read_password() {
 
 void register_operator(CLI::App& app, Context& ctx) {
   auto* op = app.add_subcommand("operator", "Console operators: add");
+  op->footer("Example:\n  scaleproof operator add --file station.operators --name \"Ines Varga\"");
   op->require_subcommand(1);
   struct Opts {
     std::string file, name;
   };
   auto o = std::make_shared<Opts>();
-  auto* add = op->add_subcommand("add", "Add an operator (password from stdin) to an operators file");
+  auto* add =
+      op->add_subcommand("add", "Add an operator (password from stdin) to an operators file");
   add->footer("Example:\n  scaleproof operator add --file station.operators --name \"Ines Varga\"");
   add->add_option("--file", o->file, "Operators file")->required();
   add->add_option("--name", o->name, "Operator name (recorded as entered_by)")->required();
@@ -62,7 +64,8 @@ void register_operator(CLI::App& app, Context& ctx) {
     if (::access(o->file.c_str(), F_OK) == 0) {
       existing = report::read_file_bytes(o->file);
       for (const auto& e : serve::parse_operators(existing, o->file)) {
-        if (e.name == o->name) throw data_error(o->file + ": operator " + o->name + " is already there");
+        if (e.name == o->name)
+          throw data_error(o->file + ": operator " + o->name + " is already there");
       }
     }
     const std::string line = serve::operator_line(o->name, read_password()) + "\n";

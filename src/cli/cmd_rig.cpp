@@ -18,8 +18,8 @@
 #include "cli/flag_values.h"
 #include "cli/store_cli.h"
 #include "core/error.h"
-#include "ops/rig_file.h"
 #include "format/validate.h"
+#include "ops/rig_file.h"
 
 namespace sp::cli {
 

@@ -37,7 +37,8 @@ serve::ListenOptions parse_listen(const std::string& text) {
   const std::string port = text.substr(colon + 1);
   int p = 0;
   for (char ch : port) {
-    if (ch < '0' || ch > '9' || p > 65535) throw usage_error("--listen: expected a port 0 to 65535, got " + port);
+    if (ch < '0' || ch > '9' || p > 65535)
+      throw usage_error("--listen: expected a port 0 to 65535, got " + port);
     p = p * 10 + (ch - '0');
   }
   if (p > 65535) throw usage_error("--listen: expected a port 0 to 65535, got " + port);
@@ -76,11 +77,13 @@ void register_serve(CLI::App& app, Context& ctx) {
       config.signer = report::signer_from_pem(report::read_private_key_file(o->key), o->key);
     }
     if (!o->operators.empty()) {
-      config.operators = serve::parse_operators(report::read_file_bytes(o->operators), o->operators);
+      config.operators =
+          serve::parse_operators(report::read_file_bytes(o->operators), o->operators);
     }
     serve::Console console(std::move(config));
     serve::run_http(console, lo, [&lo](int port) {
-      const std::string host = lo.host.find(':') != std::string::npos ? "[" + lo.host + "]" : lo.host;
+      const std::string host =
+          lo.host.find(':') != std::string::npos ? "[" + lo.host + "]" : lo.host;
       std::cout << "scaleproof console: http://" << host << ":" << port << "/" << std::endl;
     });
     ctx.exit_code = 0;

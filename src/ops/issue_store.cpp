@@ -8,8 +8,8 @@ report::LedgerAnchor ledger_anchor(store::Store& db) {
   const store::ChainHead head = db.chain_head();
   report::LedgerAnchor a{head.rows, head.head, std::nullopt};
   if (auto c = db.latest_checkpoint()) {
-    a.checkpoint = report::CheckpointRef{c->seq,       c->rows,           c->head,
-                                         c->signed_at, c->signed_by,      c->key_fingerprint,
+    a.checkpoint = report::CheckpointRef{c->seq,        c->rows,      c->head,
+                                         c->signed_at,  c->signed_by, c->key_fingerprint,
                                          c->public_key, c->signature};
   }
   return a;

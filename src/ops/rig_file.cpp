@@ -152,7 +152,6 @@ store::RigRecord rig_from_text(const std::string& body, const std::string& path,
   return r;
 }
 
-
 bool is_json_name(const std::string& path) {
   return path.size() >= 5 && path.compare(path.size() - 5, 5, ".json") == 0;
 }

@@ -22,9 +22,9 @@ struct Route {
   const char* method;
   std::vector<std::string> parts;  // "*" matches one id segment
   Handler handler;
-  bool writes;    // needs the CSRF token (forms) and, with --operators, a signed-in operator
-  bool html;      // served as a page
-  bool api;       // served under /api/
+  bool writes;  // needs the CSRF token (forms) and, with --operators, a signed-in operator
+  bool html;    // served as a page
+  bool api;     // served under /api/
 };
 
 const std::vector<Route>& routes() {
@@ -108,7 +108,8 @@ std::optional<std::string> field_of(const std::string& message, const Request* r
   if (plain) return lead;
   for (const char* platform : {"steer", "drive", "trailer"}) {
     const std::string tail = std::string(", ") + platform + " platform";
-    if (lead.size() > tail.size() && lead.compare(lead.size() - tail.size(), tail.size(), tail) == 0)
+    if (lead.size() > tail.size() &&
+        lead.compare(lead.size() - tail.size(), tail.size(), tail) == 0)
       return std::string(platform);
   }
   const std::size_t space = lead.find(' ');
@@ -199,7 +200,9 @@ const std::string& Call::field(const std::string& name) const {
   return it == req.form.end() ? none : it->second;
 }
 
-bool Call::has(const std::string& name) const { return req.form.count(name) != 0; }
+bool Call::has(const std::string& name) const {
+  return req.form.count(name) != 0;
+}
 
 long long Call::id(std::size_t i) const {
   const std::string& s = args.at(i);
@@ -244,7 +247,9 @@ Console::Console(Config config) : state_(std::make_unique<State>()) {
 
 Console::~Console() = default;
 
-const Config& Console::config() const { return state_->config; }
+const Config& Console::config() const {
+  return state_->config;
+}
 
 Response Console::handle(const Request& in) noexcept {
   Response out;
@@ -262,7 +267,8 @@ Response Console::handle(const Request& in) noexcept {
       new_visit = true;
     }
     Call call{req, *state_, api, {}, hmac_hex(state_->secret, "csrf:" + visit), std::nullopt};
-    if (state_->config.operators) call.operator_name = state_->signins.who(cookie(req, kSignInCookie));
+    if (state_->config.operators)
+      call.operator_name = state_->signins.who(cookie(req, kSignInCookie));
 
     auto finish = [&](Response r) {
       if (new_visit) {
@@ -274,10 +280,10 @@ Response Console::handle(const Request& in) noexcept {
     };
 
     if (req.body.size() > state_->config.max_body) {
-      return finish(error_response(api, &call, 413,
-                                   "body: larger than " +
-                                       std::to_string(state_->config.max_body) + " bytes",
-                                   std::string("body")));
+      return finish(
+          error_response(api, &call, 413,
+                         "body: larger than " + std::to_string(state_->config.max_body) + " bytes",
+                         std::string("body")));
     }
     if (!api && parts.size() == 2 && parts[0] == "assets" && req.method == "GET") {
       return finish(asset(parts[1]));
@@ -300,7 +306,8 @@ Response Console::handle(const Request& in) noexcept {
       return finish(error_response(api, &call, 404, "no such page: " + req.path, {}));
     }
 
-    const std::string ctype = req.headers.count("content-type") ? req.headers.at("content-type") : "";
+    const std::string ctype =
+        req.headers.count("content-type") ? req.headers.at("content-type") : "";
     const bool json_body = ctype.rfind("application/json", 0) == 0;
     if (req.method == "POST") {
       // A page of another site can post a form here; it cannot read the token, nor send a
@@ -317,7 +324,8 @@ Response Console::handle(const Request& in) noexcept {
                                 !(api && route->parts.size() == 1 && route->parts[0] == "verify");
       if (token_needed) {
         std::string token = call.field("csrf");
-        if (token.empty() && req.headers.count("x-csrf-token")) token = req.headers.at("x-csrf-token");
+        if (token.empty() && req.headers.count("x-csrf-token"))
+          token = req.headers.at("x-csrf-token");
         if (!same_token(token, call.csrf)) {
           return finish(error_response(
               api, &call, 403,
@@ -336,9 +344,9 @@ Response Console::handle(const Request& in) noexcept {
       return finish(route->handler(call));
     } catch (const Error& e) {
       const int status = status_of(e.code());
-      return finish(error_response(api, &call, status, e.what(),
-                                   status == 400 || status == 409 ? field_of(e.what(), &req)
-                                                                  : std::nullopt));
+      return finish(
+          error_response(api, &call, status, e.what(),
+                         status == 400 || status == 409 ? field_of(e.what(), &req) : std::nullopt));
     }
   } catch (const Error& e) {
     out = error_response(true, nullptr, status_of(e.code()), e.what(), field_of(e.what(), nullptr));

@@ -10,9 +10,9 @@
 #include <string>
 #include <vector>
 
-#include "serve/console.h"
 #include "core/error.h"
 #include "engine/result.h"
+#include "serve/console.h"
 #include "store/store.h"
 
 namespace sp::serve {
@@ -38,9 +38,9 @@ struct Console::State {
 struct Call {
   const Request& req;
   Console::State& st;
-  bool api = false;                      // under /api/
-  std::vector<std::string> args;         // the {id} parts of the path, in order
-  std::string csrf;                      // the token forms on this page carry
+  bool api = false;                          // under /api/
+  std::vector<std::string> args;             // the {id} parts of the path, in order
+  std::string csrf;                          // the token forms on this page carry
   std::optional<std::string> operator_name;  // signed in (with --operators)
 
   const std::string& field(const std::string& name) const;  // "" when absent

@@ -16,7 +16,8 @@ std::string esc(std::string_view text);
 // A complete page: header with navigation, <main id="main"> holding `main_html`, footer with
 // the towing caution (RULES.md: it stays on every surface that shows a result).
 std::string page(const Call& c, const std::string& title, const std::string& main_html);
-// <p id="verdict" data-verdict="WORD" class="verdict verdict-WORD"><strong>WORD</strong>: reason</p>
+// <p id="verdict" data-verdict="WORD" class="verdict verdict-WORD"><strong>WORD</strong>:
+// reason</p>
 std::string verdict_line(Verdict v, const std::string& reason);
 // <input type="hidden" name="csrf" value="...">
 std::string csrf_input(const Call& c);

@@ -107,20 +107,21 @@ void run_http(Console& console, const ListenOptions& o,
     Request probe;
     probe.path = "/api/";
     Response r = console.handle(probe);  // only for its headers
-    const std::string msg = res.status == 413 ? "body: larger than the console takes"
-                                              : "the request could not be read";
+    const std::string msg =
+        res.status == 413 ? "body: larger than the console takes" : "the request could not be read";
     for (const auto& [k, v] : r.headers) {
       if (k != "Set-Cookie") res.set_header(k, v);
     }
-    res.set_content(std::string("{\"error\":\"") + msg + "\",\"field\":" +
-                        (res.status == 413 ? "\"body\"" : "null") + "}\n",
+    res.set_content(std::string("{\"error\":\"") + msg +
+                        "\",\"field\":" + (res.status == 413 ? "\"body\"" : "null") + "}\n",
                     "application/json");
   });
 
   int port = o.port;
   if (port == 0) {
     port = svr.bind_to_any_port(o.host);
-    if (port <= 0) throw Error(ExitCode::cant_create, "--listen " + o.host + ":0: cannot bind a port");
+    if (port <= 0)
+      throw Error(ExitCode::cant_create, "--listen " + o.host + ":0: cannot bind a port");
   } else if (!svr.bind_to_port(o.host, port)) {
     throw Error(ExitCode::cant_create,
                 "--listen " + o.host + ":" + std::to_string(port) + ": cannot bind (in use?)");

@@ -14,8 +14,12 @@ namespace sp::serve {
 
 namespace {
 
-std::string n0(double v) { return fmt::format("{:.0f}", v); }
-std::string num(double v) { return fmt::format("{}", v); }
+std::string n0(double v) {
+  return fmt::format("{:.0f}", v);
+}
+std::string num(double v) {
+  return fmt::format("{}", v);
+}
 
 // The pass form's values: what was keyed (after a refusal), a voided pass to re-key, or blank.
 struct PassFields {
@@ -24,29 +28,40 @@ struct PassFields {
 
 PassFields fields_of(const Call& c) {
   PassFields f;
-  for (auto [name, dst] : {std::pair{"kind", &f.kind}, {"setting", &f.setting},
-                           {"ticket", &f.ticket}, {"weighed_at", &f.weighed_at},
-                           {"steer", &f.steer}, {"drive", &f.drive}, {"trailer", &f.trailer},
+  for (auto [name, dst] : {std::pair{"kind", &f.kind},
+                           {"setting", &f.setting},
+                           {"ticket", &f.ticket},
+                           {"weighed_at", &f.weighed_at},
+                           {"steer", &f.steer},
+                           {"drive", &f.drive},
+                           {"trailer", &f.trailer},
                            {"gross", &f.gross}}) {
     if (c.has(name)) *dst = c.field(name);
   }
   return f;
 }
 
-std::string flag_item(const Flag& f, const Session& s, const std::string& unit) {
+std::string flag_item(const Call& c, const Flag& f, const Session& s, const std::string& unit,
+                      bool open) {
   std::string h = "<li class=\"flag severity-" + std::string(to_string(f.severity)) +
                   "\" data-code=\"" + esc(f.code) + "\"><strong>" +
                   esc(std::string(to_string(f.severity))) + ":</strong> " + esc(f.message);
   if (f.ticket && f.platform) {
-    h += "<br><span class=\"named\">The fit names the " + esc(*f.platform) +
-         " reading of ticket " + esc(*f.ticket);
+    h += "<br><span class=\"named\">The fit names the " + esc(*f.platform) + " reading of ticket " +
+         esc(*f.ticket);
     if (f.needed) h += "; it would need about " + esc(n0(*f.needed)) + " " + esc(unit) + " to fit";
     h += ".</span>";
     for (const Pass& p : s.passes) {
-      if (p.ticket == *f.ticket && !p.voided && p.id) {
-        h += " <a class=\"rekey\" href=\"#pass-" + std::to_string(*p.id) +
-             "\">Void and re-key this pass</a>";
-      }
+      if (p.ticket != *f.ticket || p.voided || !p.id || !open) continue;
+      // One click: void the named pass (the reason says why) and get the form back holding
+      // its values, to key the corrected reading under the new ticket.
+      const std::string pid = std::to_string(*p.id);
+      h += " <form class=\"rekey\" method=\"post\" action=\"/sessions/" +
+           std::to_string(*s.session_id) + "/passes/" + pid + "/void\">" + csrf_input(c) +
+           "<input type=\"hidden\" name=\"reason\" value=\"" +
+           esc("the fit names the " + *f.platform + " reading (" + f.code + "); re-keyed") +
+           "\"><button type=\"submit\">Void and re-key</button></form> <a href=\"#pass-" + pid +
+           "\">See the pass</a>";
     }
   } else if (f.field) {
     h += "<br><span class=\"named\">The fit names the tape length " + esc(*f.field);
@@ -58,13 +73,13 @@ std::string flag_item(const Flag& f, const Session& s, const std::string& unit) 
   return h + "</li>\n";
 }
 
-std::string result_block(const Reconciled& rec, const Session& s) {
+std::string result_block(const Call& c, const Reconciled& rec, const Session& s, bool open) {
   const std::string unit(to_string(s.units.weight));
   std::string h;
   if (!rec.result) return h;
   const ReconcileResult& r = *rec.result;
   h += "<section aria-labelledby=\"flags-h\"><h2 id=\"flags-h\">Flags</h2>\n<ul id=\"flags\">\n";
-  for (const Flag& f : r.flags) h += flag_item(f, s, unit);
+  for (const Flag& f : r.flags) h += flag_item(c, f, s, unit, open);
   h += "</ul>\n";
   if (r.flags.empty()) h += "<p>No flags.</p>\n";
   h += "</section>\n";
@@ -80,16 +95,16 @@ std::string result_block(const Reconciled& rec, const Session& s) {
          "<th scope=\"col\">Rating</th><th scope=\"col\">Load</th><th scope=\"col\">Limit</th>"
          "<th scope=\"col\">Status</th></tr></thead><tbody>\n";
     for (const auto& row : r.compliance) {
-      h += "<tr><td>" + esc(row.label) + "</td><td>" + n0(row.value) + " ± " + n0(2 * row.u) +
-           " " + esc(unit) + "</td><td>" + n0(row.limit) + " " + esc(unit) + "</td><td class=\"" +
+      h += "<tr><td>" + esc(row.label) + "</td><td>" + n0(row.value) + " ± " + n0(2 * row.u) + " " +
+           esc(unit) + "</td><td>" + n0(row.limit) + " " + esc(unit) + "</td><td class=\"" +
            std::string(to_string(row.status)) + "\">" + std::string(to_string(row.status)) +
            "</td></tr>\n";
     }
     h += "</tbody></table>\n";
   }
   if (r.target && r.target->setting) {
-    h += "<p>Bar setting for " + n0(r.target->falr) + " % front axle load restoration: " +
-         esc(setting_text(*r.target)) +
+    h += "<p>Bar setting for " + n0(r.target->falr) +
+         " % front axle load restoration: " + esc(setting_text(*r.target)) +
          (r.target->provisional ? " <strong>(PROVISIONAL: not to be relied on)</strong>" : "") +
          "</p>\n";
   }
@@ -108,15 +123,18 @@ std::string passes_table(const Call& c, const Session& s, bool open) {
     const std::string pid = std::to_string(p.id.value_or(0));
     h += "<tr id=\"pass-" + pid + "\" data-pass=\"" + pid + "\" data-ticket=\"" + esc(p.ticket) +
          "\"" + (p.voided ? " class=\"voided\"" : "") + "><td>" + esc(p.ticket) + "</td><td>" +
-         std::string(to_string(p.kind)) + "</td><td>" + esc(p.setting.value_or("")) +
-         "</td><td>" + num(p.steer) + "</td><td>" + num(p.drive) + "</td><td>" +
+         std::string(to_string(p.kind)) + "</td><td>" + esc(p.setting.value_or("")) + "</td><td>" +
+         num(p.steer) + "</td><td>" + num(p.drive) + "</td><td>" +
          (p.trailer ? num(*p.trailer) : "") + "</td><td>" + esc(p.weighed_at) + "</td><td>";
     if (p.voided) {
       h += "void: " + esc(p.void_reason.value_or(""));
     } else if (open) {
       h += "<form class=\"void\" method=\"post\" action=\"/sessions/" + sid + "/passes/" + pid +
-           "/void\">" + csrf_input(c) + "<label for=\"reason-" + pid + "\">Reason</label> "
-           "<input id=\"reason-" + pid + "\" name=\"reason\" required value=\"keyed wrong; "
+           "/void\">" + csrf_input(c) + "<label for=\"reason-" + pid +
+           "\">Reason</label> "
+           "<input id=\"reason-" +
+           pid +
+           "\" name=\"reason\" required value=\"keyed wrong; "
            "re-keyed\"> <button type=\"submit\">Void and re-key</button></form>";
     }
     h += "</td></tr>\n";
@@ -129,8 +147,8 @@ std::string pass_form(const Call& c, const Session& s, const PassFields& f) {
   const std::string unit(to_string(s.units.weight));
   auto input = [&](const char* name, const char* label, const std::string& value,
                    const char* extra) {
-    return std::string("<p><label for=\"") + name + "\">" + label + "</label> <input id=\"" +
-           name + "\" name=\"" + name + "\" value=\"" + esc(value) + "\" " + extra + "></p>\n";
+    return std::string("<p><label for=\"") + name + "\">" + label + "</label> <input id=\"" + name +
+           "\" name=\"" + name + "\" value=\"" + esc(value) + "\" " + extra + "></p>\n";
   };
   std::string h = "<form id=\"pass-form\" method=\"post\" action=\"/sessions/" + sid +
                   "/passes\">" + csrf_input(c) +
@@ -143,14 +161,16 @@ std::string pass_form(const Call& c, const Session& s, const PassFields& f) {
   h += "</select></p>\n";
   h += input("setting", "Bar setting (tensioned)", f.setting, "");
   h += input("ticket", "Ticket", f.ticket, "required autocomplete=\"off\"");
-  h += input("weighed_at", "Weighed at (ISO 8601)", f.weighed_at.empty() ? store::now_utc() : f.weighed_at, "required");
+  h += input("weighed_at", "Weighed at (ISO 8601)",
+             f.weighed_at.empty() ? store::now_utc() : f.weighed_at, "required");
   const std::string w = " (" + unit + ")";
   h += input("steer", ("Steer platform" + w).c_str(), f.steer, "required inputmode=\"decimal\"");
   h += input("drive", ("Drive platform" + w).c_str(), f.drive, "required inputmode=\"decimal\"");
   h += input("trailer", ("Trailer platform" + w).c_str(), f.trailer, "inputmode=\"decimal\"");
   h += input("gross", ("Printed gross, if any" + w).c_str(), f.gross, "inputmode=\"decimal\"");
-  return h + "<p><button type=\"submit\" id=\"pass-submit\">Store the pass</button></p>"
-             "</fieldset></form>\n";
+  return h +
+         "<p><button type=\"submit\" id=\"pass-submit\">Store the pass</button></p>"
+         "</fieldset></form>\n";
 }
 
 Response desk_page(const Call& c, long long id, int status, const std::string& error,
@@ -163,7 +183,8 @@ Response desk_page(const Call& c, long long id, int status, const std::string& e
   const Reconciled rec = reconcile_for_page(s);
   if (c.api) {
     if (!rec.result) {
-      return json_response(200, nlohmann::ordered_json{{"session", id}, {"error", rec.error}}.dump());
+      return json_response(200,
+                           nlohmann::ordered_json{{"session", id}, {"error", rec.error}}.dump());
     }
     return json_response(200, result_to_json(*rec.result).dump(2));
   }
@@ -175,7 +196,7 @@ Response desk_page(const Call& c, long long id, int status, const std::string& e
        "; scale " + esc(s.scale.id) + " (d = " + num(s.scale.division) + " " +
        std::string(to_string(s.units.weight)) + "); " +
        (open ? "open" : "closed " + esc(*hist.closed_at)) + ".</p>\n";
-  h += result_block(rec, s);
+  h += result_block(c, rec, s, open);
   h += passes_table(c, s, open);
   if (open) {
     h += pass_form(c, s, fields);
@@ -186,14 +207,17 @@ Response desk_page(const Call& c, long long id, int status, const std::string& e
     h += "<form id=\"issue-report\" method=\"post\" action=\"/sessions/" + sid + "/report\">" +
          csrf_input(c) + "<button type=\"submit\">Issue the signed report</button></form>\n";
   }
-  h += "<p class=\"links\"><a href=\"/sessions/" + sid + "/plan\">Plan (bar moment chart)</a> · "
-       "<a href=\"/sessions/" + sid + "/history\">History</a></p>\n";
+  h += "<p class=\"links\"><a href=\"/sessions/" + sid +
+       "/plan\">Plan (bar moment chart)</a> · "
+       "<a href=\"/sessions/" +
+       sid + "/history\">History</a></p>\n";
   return html_response(status, page(c, "Session " + sid, h));
 }
 
 double required_number(const Call& c, const char* name, const validate::FieldNames& names) {
   const std::string& s = c.field(name);
-  if (s.empty()) throw data_error(std::string(name) + ": missing; expected the " + name + "-platform reading");
+  if (s.empty())
+    throw data_error(std::string(name) + ": missing; expected the " + name + "-platform reading");
   double v = 0;
   if (!validate::parse_number(s, v)) validate::not_a_number(s, name, names);
   return v;
@@ -218,7 +242,8 @@ long long store_pass(const Call& c, long long session) {
   p.ticket = c.field("ticket");
   if (p.ticket.empty()) throw data_error("ticket: missing; expected the ticket number");
   p.weighed_at = c.field("weighed_at");
-  if (p.weighed_at.empty()) throw data_error("weighed_at: missing; expected the time on the ticket");
+  if (p.weighed_at.empty())
+    throw data_error("weighed_at: missing; expected the time on the ticket");
   p.steer = required_number(c, "steer", names);
   p.drive = required_number(c, "drive", names);
   p.trailer = optional_number(c, "trailer", names);
@@ -289,8 +314,8 @@ Response pass_void(const Call& c) {
   auto db = c.st.open_store();
   store::Txn txn(*db, store::Txn::write);
   if (db->pass_session(pass) != session) {
-    throw Error(ExitCode::no_input, "pass " + std::to_string(pass) + ": not in session " +
-                                        std::to_string(session));
+    throw Error(ExitCode::no_input,
+                "pass " + std::to_string(pass) + ": not in session " + std::to_string(session));
   }
   db->void_pass(pass, reason, c.operator_name, "");
   txn.commit();
@@ -326,19 +351,27 @@ Response session_history(const Call& c) {
   j["closed_by"] = o(h.closed_by);
   j["passes"] = nlohmann::ordered_json::array();
   for (const Pass& p : h.session.passes) {
-    j["passes"].push_back({{"id", p.id.value_or(0)}, {"ticket", p.ticket},
-                           {"kind", std::string(to_string(p.kind))}, {"voided", p.voided},
-                           {"entered_by", o(p.entered_by)}, {"entered_at", o(p.entered_at)}});
+    j["passes"].push_back({{"id", p.id.value_or(0)},
+                           {"ticket", p.ticket},
+                           {"kind", std::string(to_string(p.kind))},
+                           {"voided", p.voided},
+                           {"entered_by", o(p.entered_by)},
+                           {"entered_at", o(p.entered_at)}});
   }
   j["voids"] = nlohmann::ordered_json::array();
   for (const auto& v : h.corrections) {
-    j["voids"].push_back({{"pass", v.pass_id}, {"ticket", v.ticket}, {"reason", v.reason},
-                          {"made_by", o(v.made_by)}, {"made_at", v.made_at}});
+    j["voids"].push_back({{"pass", v.pass_id},
+                          {"ticket", v.ticket},
+                          {"reason", v.reason},
+                          {"made_by", o(v.made_by)},
+                          {"made_at", v.made_at}});
   }
   j["reports"] = nlohmann::ordered_json::array();
   for (const auto& r : h.reports) {
-    j["reports"].push_back({{"report_id", r.report_id}, {"pdf_sha256", r.pdf_sha256},
-                            {"key_fingerprint", r.key_fingerprint}, {"issued_at", r.issued_at}});
+    j["reports"].push_back({{"report_id", r.report_id},
+                            {"pdf_sha256", r.pdf_sha256},
+                            {"key_fingerprint", r.key_fingerprint},
+                            {"issued_at", r.issued_at}});
   }
   if (c.api) return json_response(200, j.dump(2));
   const std::string sid = std::to_string(id);
@@ -353,16 +386,17 @@ Response session_history(const Call& c) {
   }
   for (const auto& v : h.corrections) {
     html += "<li class=\"void\" data-pass=\"" + std::to_string(v.pass_id) + "\">" + esc(v.action) +
-            " pass " + std::to_string(v.pass_id) + " (ticket " + esc(v.ticket) + "): " +
-            esc(v.reason) + " at " + esc(v.made_at) + (v.made_by ? " by " + esc(*v.made_by) : "") +
-            "</li>\n";
+            " pass " + std::to_string(v.pass_id) + " (ticket " + esc(v.ticket) +
+            "): " + esc(v.reason) + " at " + esc(v.made_at) +
+            (v.made_by ? " by " + esc(*v.made_by) : "") + "</li>\n";
   }
   for (const auto& r : h.reports) {
     html += "<li>report " + esc(r.report_id) + " issued " + esc(r.issued_at) + " (PDF SHA-256 " +
             esc(r.pdf_sha256) + ")</li>\n";
   }
   if (h.closed_at) {
-    html += "<li>closed " + esc(*h.closed_at) + (h.closed_by ? " by " + esc(*h.closed_by) : "") + "</li>\n";
+    html += "<li>closed " + esc(*h.closed_at) + (h.closed_by ? " by " + esc(*h.closed_by) : "") +
+            "</li>\n";
   }
   html += "</ol>\n<p><a href=\"/sessions/" + sid + "\">Back to the desk</a></p>\n";
   return html_response(200, page(c, "History of session " + sid, html));

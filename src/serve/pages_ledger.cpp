@@ -8,12 +8,14 @@
 #include "ops/plan_session.h"
 #include "serve/handlers.h"
 #include "serve/html.h"
-#include "serve/plan_chart.h"
+#include "serve/plan_svg.h"
 
 namespace sp::serve {
 
 namespace {
-std::string fmt_weight(double v) { return fmt::format("{:.0f}", v); }
+std::string fmt_weight(double v) {
+  return fmt::format("{:.0f}", v);
+}
 }  // namespace
 
 Response ledger(const Call& c) {
@@ -22,13 +24,15 @@ Response ledger(const Call& c) {
   const audit::LedgerProof p = audit::prove_ledger(*db, audit::ProofOptions{});
   txn.commit();
   if (c.api) return json_response(p.ok() ? 200 : 422, audit::proof_json(p).dump(2));
-  std::string h = "<p id=\"ledger-verdict\" data-ok=\"" + std::string(p.ok() ? "true" : "false") +
-                  "\" class=\"verify " + (p.ok() ? "holds" : "fails") + "\"><strong>check-store: " +
-                  (p.ok() ? "ok" : "FAILED") + "</strong></p>\n<h1>Ledger</h1>\n<p>Rows: <span "
-                  "id=\"ledger-rows\">" + std::to_string(p.chain.rows) +
-                  "</span>. Head hash: <code id=\"ledger-head\">" +
-                  esc(p.chain.ok ? (p.chain.head.empty() ? "(empty store)" : p.chain.head) : "(none proven)") +
-                  "</code></p>\n";
+  std::string h =
+      "<p id=\"ledger-verdict\" data-ok=\"" + std::string(p.ok() ? "true" : "false") +
+      "\" class=\"verify " + (p.ok() ? "holds" : "fails") +
+      "\"><strong>check-store: " + (p.ok() ? "ok" : "FAILED") +
+      "</strong></p>\n<h1>Ledger</h1>\n<p>Rows: <span "
+      "id=\"ledger-rows\">" +
+      std::to_string(p.chain.rows) + "</span>. Head hash: <code id=\"ledger-head\">" +
+      esc(p.chain.ok ? (p.chain.head.empty() ? "(empty store)" : p.chain.head) : "(none proven)") +
+      "</code></p>\n";
   if (!p.chain.ok) {
     h += error_box("first bad row: " + p.chain.table + " id " + std::to_string(p.chain.id) +
                    ", chain position " + std::to_string(p.chain.seq) + ": " + p.chain.problem);
@@ -52,16 +56,20 @@ Response plan_page(const Call& c) {
   const std::string sid = std::to_string(id);
   std::string h = verdict_line(sp.labels.verdict, sp.labels.verdict_reason);
   h += "<h1>Plan for session " + sid + "</h1>\n<p>" + esc(sp.plan.baseline.source) + ".</p>\n";
-  h += "<figure>" + plan_chart(sp.plan) +
-       "<figcaption>Axle loads against bar moment; dashed: the moment for the front axle load "
-       "restoration target; lines across: axle ratings.</figcaption></figure>\n";
+  PlanSvgOptions chart;
+  chart.title = sp.labels.tow + " + " + sp.labels.trailer;
+  chart.weighed = sp.labels.weighed;
+  h += "<figure>" + plan_svg(sp.plan, chart) +
+       "<figcaption>Axle loads against bar moment, the moment for the front axle load "
+       "restoration target and every rating line.</figcaption></figure>\n";
   h += "<table id=\"plan-ratings\"><caption>Ratings across the bar moments</caption><thead><tr>"
        "<th scope=\"col\">Rating</th><th scope=\"col\">Limit</th><th scope=\"col\">Exceeded"
        "</th></tr></thead><tbody>\n";
   for (const auto& g : sp.plan.ratings) {
     h += "<tr data-rating=\"" + esc(g.rating) + "\"><td>" + esc(g.label) + "</td><td>" +
          esc(fmt_weight(g.limit)) + "</td><td>" + std::string(to_string(g.exceeded)) +
-         (g.boundary ? " (at " + esc(fmt_weight(*g.boundary)) + " " + esc(sp.plan.moment_unit) + ")" : "") +
+         (g.boundary ? " (at " + esc(fmt_weight(*g.boundary)) + " " + esc(sp.plan.moment_unit) + ")"
+                     : "") +
          "</td></tr>\n";
   }
   h += "</tbody></table>\n<ul>";
@@ -78,7 +86,8 @@ Response signin_form(const Call& c) {
                   "for=\"password\">Password</label> <input id=\"password\" name=\"password\" "
                   "type=\"password\" autocomplete=\"current-password\" required></p>\n<p><button "
                   "type=\"submit\">Sign in</button></p></form>\n";
-  if (!c.st.config.operators) h += "<p>This console runs without operators: no sign-in needed.</p>\n";
+  if (!c.st.config.operators)
+    h += "<p>This console runs without operators: no sign-in needed.</p>\n";
   return html_response(200, page(c, "Sign in", h));
 }
 
@@ -92,9 +101,10 @@ Response signin_post(const Call& c) {
   const OperatorEntry dummy{"", kPbkdf2Iterations, std::string(16, 'x'), std::string(32, '\0')};
   const bool ok = password_matches(found ? *found : dummy, c.field("password")) && found;
   if (!ok) {
-    return html_response(403, page(c, "Sign in", "<h1>Sign in</h1>\n" +
-                                                     error_box("name: the name or the password does not match") +
-                                                     "<p><a href=\"/signin\">Try again</a></p>\n"));
+    return html_response(403, page(c, "Sign in",
+                                   "<h1>Sign in</h1>\n" +
+                                       error_box("name: the name or the password does not match") +
+                                       "<p><a href=\"/signin\">Try again</a></p>\n"));
   }
   Response r = redirect("/sessions");
   r.headers.emplace_back("Set-Cookie", "sp_op=" + c.st.signins.sign_in(found->name) +

@@ -23,14 +23,17 @@ std::string download_path(bool api, long long session, const std::string& report
          report_id + suffix;
 }
 
-std::string status_word(report::CheckStatus s) { return std::string(report::to_string(s)); }
+std::string status_word(report::CheckStatus s) {
+  return std::string(report::to_string(s));
+}
 
 }  // namespace
 
 Response report_issue(const Call& c) {
   if (!c.st.config.signer) {
-    throw Error(ExitCode::no_input, "report: this console was started without --key; no report "
-                                    "can be signed here");
+    throw Error(ExitCode::no_input,
+                "report: this console was started without --key; no report "
+                "can be signed here");
   }
   const long long id = c.id(0);
   auto db = c.st.open_store();
@@ -70,12 +73,13 @@ Response report_issue(const Call& c) {
   const std::string pdf = download_path(c.api, id, rep.id, ".pdf");
   const std::string sig = download_path(c.api, id, rep.id, ".pdf.sig");
   if (c.api) {
-    return json_response(201, nlohmann::ordered_json{{"verdict", std::string(to_string(result.verdict))},
-                                                     {"report_id", rep.id},
-                                                     {"fingerprint", rep.fingerprint},
-                                                     {"pdf", pdf},
-                                                     {"sig", sig}}
-                                  .dump(2));
+    return json_response(201,
+                         nlohmann::ordered_json{{"verdict", std::string(to_string(result.verdict))},
+                                                {"report_id", rep.id},
+                                                {"fingerprint", rep.fingerprint},
+                                                {"pdf", pdf},
+                                                {"sig", sig}}
+                             .dump(2));
   }
   std::string h = verdict_line(result.verdict, result.verdict_reason);
   h += "<h1>Report " + esc(rep.id) + " issued</h1>\n<p>Signed with key " + esc(rep.fingerprint) +
@@ -91,7 +95,8 @@ Response report_download(const Call& c) {
   std::string name = c.args.at(1);
   bool sig = false;
   auto ends = [&name](const std::string& suffix) {
-    return name.size() > suffix.size() && name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
+    return name.size() > suffix.size() &&
+           name.compare(name.size() - suffix.size(), suffix.size(), suffix) == 0;
   };
   if (ends(".pdf.sig")) {
     sig = true;
@@ -106,8 +111,9 @@ Response report_download(const Call& c) {
     std::lock_guard<std::mutex> lock(c.st.reports_mu);
     auto it = c.st.reports.find(name);
     if (it == c.st.reports.end() || it->second.session != id) {
-      throw Error(ExitCode::no_input, "report " + name + ": not issued by this console since it "
-                                      "started; issue it again from the desk");
+      throw Error(ExitCode::no_input, "report " + name +
+                                          ": not issued by this console since it "
+                                          "started; issue it again from the desk");
     }
     d = it->second;
   }
@@ -142,7 +148,8 @@ Response verify_post(const Call& c) {
   const UploadedFile* pdf = file("report");
   if (pdf == nullptr) throw data_error("report: expected the report PDF as a file upload");
   std::unique_ptr<report::Verifier> station;
-  if (const UploadedFile* k = file("pubkey")) station = report::verifier_from_pem(k->content, "pubkey");
+  if (const UploadedFile* k = file("pubkey"))
+    station = report::verifier_from_pem(k->content, "pubkey");
   report::VerifyOptions opt;
   opt.station_key = station.get();
   if (const UploadedFile* s = file("sig")) opt.detached_signature = s->content;
@@ -154,7 +161,8 @@ Response verify_post(const Call& c) {
     nlohmann::ordered_json j{{"ok", ok}, {"verdict", r.verdict()}, {"report_id", r.report_id}};
     j["checks"] = nlohmann::ordered_json::array();
     for (const auto& ch : r.checks) {
-      j["checks"].push_back({{"name", ch.name}, {"status", status_word(ch.status)}, {"detail", ch.detail}});
+      j["checks"].push_back(
+          {{"name", ch.name}, {"status", status_word(ch.status)}, {"detail", ch.detail}});
     }
     j["coverage"] = r.coverage();
     return json_response(200, j.dump(2));

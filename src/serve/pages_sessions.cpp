@@ -1,8 +1,8 @@
 // Sessions: the list (open first, searchable), opening one, adding a rig.
-#include <algorithm>
-#include <map>
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <map>
 #include <nlohmann/json.hpp>
 
 #include "engine/reconcile.h"
@@ -104,11 +104,12 @@ Response sessions_list(const Call& c) {
     }
     return json_response(200, arr.dump(2));
   }
-  std::string h = "<h1>Weigh sessions</h1>\n"
-                  "<form id=\"search\" method=\"get\" action=\"/sessions\" role=\"search\">"
-                  "<label for=\"q\">Search by ticket, rig or date</label> "
-                  "<input id=\"q\" name=\"q\" type=\"search\" value=\"" +
-                  esc(q) + "\"> <button type=\"submit\">Search</button></form>\n";
+  std::string h =
+      "<h1>Weigh sessions</h1>\n"
+      "<form id=\"search\" method=\"get\" action=\"/sessions\" role=\"search\">"
+      "<label for=\"q\">Search by ticket, rig or date</label> "
+      "<input id=\"q\" name=\"q\" type=\"search\" value=\"" +
+      esc(q) + "\"> <button type=\"submit\">Search</button></form>\n";
   h += "<p><a class=\"button\" href=\"/sessions/new\">Open a session</a></p>\n";
   h += "<table id=\"sessions\"><caption>" + std::to_string(shown.size()) +
        " session(s), open ones first</caption>\n<thead><tr><th scope=\"col\">Session</th>"
@@ -147,8 +148,9 @@ Response session_new_form(const Call& c) {
   h += "</select> <a href=\"/rigs/new\">Add a rig</a></p>\n<p><label for=\"scale\">Scale</label> "
        "<select id=\"scale\" name=\"scale\" required>";
   for (const auto& s : scales) {
-    h += "<option value=\"" + esc(s.info.id) + "\">" + esc(s.info.id) + " (d = " +
-         esc(fmt::format("{}", s.info.division)) + " " + std::string(to_string(s.unit)) + ")</option>";
+    h += "<option value=\"" + esc(s.info.id) + "\">" + esc(s.info.id) +
+         " (d = " + esc(fmt::format("{}", s.info.division)) + " " + std::string(to_string(s.unit)) +
+         ")</option>";
   }
   h += "</select></p>\n<p><label for=\"label\">Session key (optional)</label> "
        "<input id=\"label\" name=\"label\"></p>\n<p><label for=\"owner\">Owner (optional)</label> "
@@ -187,14 +189,15 @@ Response session_open(const Call& c) {
 }
 
 Response rig_new_form(const Call& c) {
-  std::string h = "<h1>Add a rig</h1>\n<p>The same TOML a rig file for <code>scaleproof rig add "
-                  "--file</code> holds.</p>\n<form id=\"add-rig\" method=\"post\" "
-                  "action=\"/rigs\">" +
-                  csrf_input(c) +
-                  "\n<p><label for=\"rig_file\">Rig file (TOML)</label><br><textarea "
-                  "id=\"rig_file\" name=\"rig_file\" rows=\"22\" cols=\"72\" required "
-                  "spellcheck=\"false\"></textarea></p>\n<p><button type=\"submit\">Add the "
-                  "rig</button></p></form>\n";
+  std::string h =
+      "<h1>Add a rig</h1>\n<p>The same TOML a rig file for <code>scaleproof rig add "
+      "--file</code> holds.</p>\n<form id=\"add-rig\" method=\"post\" "
+      "action=\"/rigs\">" +
+      csrf_input(c) +
+      "\n<p><label for=\"rig_file\">Rig file (TOML)</label><br><textarea "
+      "id=\"rig_file\" name=\"rig_file\" rows=\"22\" cols=\"72\" required "
+      "spellcheck=\"false\"></textarea></p>\n<p><button type=\"submit\">Add the "
+      "rig</button></p></form>\n";
   return html_response(200, page(c, "Add a rig", h));
 }
 
@@ -211,7 +214,8 @@ Response rig_add(const Call& c) {
     rethrow_as(db->find_rig(rig.name).has_value(), e);
   }
   txn.commit();
-  if (c.api) return json_response(201, nlohmann::ordered_json{{"id", id}, {"name", rig.name}}.dump());
+  if (c.api)
+    return json_response(201, nlohmann::ordered_json{{"id", id}, {"name", rig.name}}.dump());
   return redirect("/sessions/new");
 }
 

@@ -28,9 +28,9 @@ inline std::string read_text(const std::string& path) {
 // The demo session 03 in the store as session 1: scale QX-1, rig "RA-3", its first
 // `passes` passes (4: all, with the mis-keyed drive reading of ticket QX-4390).
 inline Session load_demo(store::Store& st, std::size_t passes = 4) {
-  const Session s = parse_session_json(
-      read_text(std::string(SCALEPROOF_SOURCE_DIR) + "/data-demo/sessions/03-mis-keyed-reading.json"),
-      "03");
+  const Session s = parse_session_json(read_text(std::string(SCALEPROOF_SOURCE_DIR) +
+                                                 "/data-demo/sessions/03-mis-keyed-reading.json"),
+                                       "03");
   store::Txn txn(st, store::Txn::write);
   const long long scale = st.add_scale(s.scale, s.units.weight, std::nullopt, "");
   store::RigRecord rig;

@@ -56,7 +56,8 @@ TEST_CASE("issue a signed report, download it, verify it; a flipped byte fails")
   const std::string pub = report::public_key_pem(signer->public_key());
   const auto verify = [&](const std::string& bytes) {
     return nlohmann::json::parse(
-        cl.send(upload("/api/verify", {{"report", bytes}, {"sig", sig.body}, {"pubkey", pub}})).body);
+        cl.send(upload("/api/verify", {{"report", bytes}, {"sig", sig.body}, {"pubkey", pub}}))
+            .body);
   };
   const auto good = verify(pdf.body);
   CAPTURE(good.dump());

@@ -16,9 +16,11 @@ Config config_for(const storetest::TempStore& ts) {
   return c;
 }
 
-const std::map<std::string, std::string> kPass = {
-    {"kind", "unhitched"}, {"ticket", "QX-5000"}, {"weighed_at", "2026-10-21T15:00:00-06:00"},
-    {"steer", "3560"},     {"drive", "2880"}};
+const std::map<std::string, std::string> kPass = {{"kind", "unhitched"},
+                                                  {"ticket", "QX-5000"},
+                                                  {"weighed_at", "2026-10-21T15:00:00-06:00"},
+                                                  {"steer", "3560"},
+                                                  {"drive", "2880"}};
 
 }  // namespace
 
@@ -89,7 +91,9 @@ TEST_CASE("every value on a page is escaped") {
   Console console(config_for(ts));
   Client cl{console, {}, ""};
   cl.get("/sessions/new");
-  REQUIRE(cl.post("/sessions", {{"rig", "RA-3"}, {"scale", "QX-1"}, {"label", "<b>k</b>"}}).status == 303);
+  REQUIRE(
+      cl.post("/sessions", {{"rig", "RA-3"}, {"scale", "QX-1"}, {"label", "<b>k</b>"}}).status ==
+      303);
   const Response r = cl.get("/sessions", {{"q", "<i>"}});
   CHECK(r.body.find("<i>") == std::string::npos);
   CHECK(r.body.find("&lt;i&gt;") != std::string::npos);
@@ -139,7 +143,8 @@ TEST_CASE("with operators every write needs a signed-in operator, recorded as en
     pass = ts.store->find_pass(1, "QX-4388").value();
     txn.commit();
   }
-  REQUIRE(cl.post("/sessions/1/passes/" + std::to_string(pass) + "/void", {{"reason", "test"}}).status == 303);
+  REQUIRE(cl.post("/sessions/1/passes/" + std::to_string(pass) + "/void", {{"reason", "test"}})
+              .status == 303);
   {
     store::Txn txn(*ts.store, store::Txn::read);
     const auto h = ts.store->session_history(1);
@@ -173,7 +178,7 @@ TEST_CASE("operators file: PBKDF2-HMAC-SHA256 and its lines") {
   CHECK(ops[0].name == "Marit");
   CHECK(password_matches(ops[0], "pw"));
   CHECK(operator_line("Marit", "pw", 1000) != line);  // a new salt each time
-  CHECK(kPbkdf2Iterations >= 600000);  // OWASP Password Storage Cheat Sheet (2023)
+  CHECK(kPbkdf2Iterations >= 600000);                 // OWASP Password Storage Cheat Sheet (2023)
 
   struct Bad {
     const char* name;
