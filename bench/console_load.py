@@ -8,8 +8,8 @@ Starts `scaleproof demo --out WORK/demo` (a store with the demo's rigs and scale
 each sending --requests requests over its own keep-alive connection (stdlib http.client) in
 cycles like an operator's: open a session (POST /api/sessions), then for each of the four passes
 of data-demo/sessions/01-pickup-travel-trailer.json: key it (POST /api/sessions/ID/passes) and
-read the desk's result (GET /api/sessions/ID); every tenth request of a cycle reads the sessions
-list, the ledger or the plan instead. A 503 (store busy) is retried after its Retry-After and
+read the desk's result (GET /api/sessions/ID); every tenth request reads the sessions list, the
+ledger or the session's plan (once it has the unhitched and hitched passes) instead. A 503 (store busy) is retried after its Retry-After and
 counted; any other refusal is an error.
 Afterwards: SIGINT stops the server (exit 0 required), `scaleproof check-store` must be clean, and
 the store must hold exactly the sessions and passes the server acknowledged (201), none lost and
@@ -101,6 +101,8 @@ class Client(threading.Thread):
                     step = 0
             elif self.done % 10 == 9:
                 kind = ("list", "ledger", "plan")[cycle % 3]
+                if kind == "plan" and len(self.sessions[session]) < 2:
+                    kind = "list"  # a plan needs the unhitched and the hitched pass
                 path = {"list": "/api/sessions", "ledger": "/api/ledger",
                         "plan": "/api/sessions/%s/plan" % session}[kind]
                 status, payload, dt = self.call(conn, "GET", path)

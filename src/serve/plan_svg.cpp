@@ -181,7 +181,7 @@ std::string draw_panel(const Panel& panel, Frame f, const PlanResult& p, bool sw
   f.y1 = hi + pad;
   const std::string wu(to_string(p.units.weight));
   std::string o;
-  o += fmt::format("<g class=\"panel\" aria-label=\"{}\">\n", xml_escape(panel.heading));
+  o += fmt::format("<g class=\"pc-panel\" aria-label=\"{}\">\n", xml_escape(panel.heading));
   o += fmt::format("<text x=\"{}\" y=\"{}\" font-weight=\"bold\">{}</text>\n", num(f.left),
                    num(f.top - 10), xml_escape(panel.heading));
   o += fmt::format(
@@ -227,14 +227,16 @@ std::string draw_panel(const Panel& panel, Frame f, const PlanResult& p, bool sw
     o += fmt::format(
         "<line class=\"{}\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#111111\" "
         "stroke-width=\"1.4\" stroke-dasharray=\"{}\"><title>{}</title></line>\n",
-        above ? "target" : "full-restoration", num(x), num(f.top), num(x), num(f.top + f.height),
-        dash, xml_escape(words));
+        above ? "pc-target" : "pc-full-restoration", num(x), num(f.top), num(x),
+        num(f.top + f.height), dash, xml_escape(words));
     if (label_marks) {
       const bool right_half = x > f.left + f.width * 0.6;
-      o += fmt::format("<text x=\"{}\" y=\"{}\" text-anchor=\"{}\" font-size=\"11\">{}</text>\n",
-                       num(right_half ? x - 4 : x + 4),
-                       num(above ? f.top + 13 : f.top + f.height - 6), right_half ? "end" : "start",
-                       xml_escape(words));
+      // A white halo keeps the words readable across the lines they cross.
+      o += fmt::format(
+          "<text x=\"{}\" y=\"{}\" text-anchor=\"{}\" font-size=\"11\" "
+          "stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">{}</text>\n",
+          num(right_half ? x - 4 : x + 4), num(above ? f.top + 13 : f.top + f.height - 6),
+          right_half ? "end" : "start", xml_escape(words));
     }
   };
   if (p.target_moment)
@@ -264,7 +266,7 @@ std::string draw_panel(const Panel& panel, Frame f, const PlanResult& p, bool sw
     }
     if (!last) continue;
     const char* dash = l.style.dash;
-    o += fmt::format("<g class=\"{}\" aria-label=\"{}\">", l.limit ? "rating" : "load",
+    o += fmt::format("<g class=\"{}\" aria-label=\"{}\">", l.limit ? "pc-rating" : "pc-load",
                      xml_escape(l.words));
     if (n >= 2)
       o += fmt::format(
@@ -285,7 +287,7 @@ std::string draw_panel(const Panel& panel, Frame f, const PlanResult& p, bool sw
   for (const Crossing& c : panel.crossings) {
     if (!finite(c.moment) || c.moment < f.x0 || c.moment > f.x1) continue;
     o += fmt::format(
-        "<circle class=\"crossing\" cx=\"{}\" cy=\"{}\" r=\"5\" fill=\"none\" stroke=\"{}\" "
+        "<circle class=\"pc-crossing\" cx=\"{}\" cy=\"{}\" r=\"5\" fill=\"none\" stroke=\"{}\" "
         "stroke-width=\"2\"><title>{}</title></circle>\n",
         num(f.x(c.moment)), num(f.y(c.value)), c.colour, xml_escape(c.words));
   }
@@ -409,9 +411,10 @@ std::string plan_svg(const PlanResult& p, const PlanSvgOptions& options) {
   Frame f1{ml, top, width - ml - mr, ph, 0, x1, 0, 1};
   Frame f2{ml, top + ph + 46 + gap, width - ml - mr, ph, 0, x1, 0, 1};
 
-  const std::string heading =
-      std::string(options.weighed ? "Plan from the weighing" : "Plan before weighing") +
-      (options.title.empty() ? "" : ": " + options.title);
+  const std::string basis = !options.weighed   ? "Plan"
+                            : *options.weighed ? "Plan from the weighing"
+                                               : "Plan before weighing";
+  const std::string heading = basis + (options.title.empty() ? "" : ": " + options.title);
   // Summary in words for assistive technology (and the <desc>).
   std::string over_words;
   for (const PlanRating& r : p.ratings)
@@ -469,7 +472,7 @@ std::string plan_svg(const PlanResult& p, const PlanSvgOptions& options) {
         num(ml), num(y));
   } else {
     o += fmt::format(
-        "<g class=\"ratings\"><text x=\"{}\" y=\"{}\" font-weight=\"bold\">Ratings"
+        "<g class=\"pc-ratings\"><text x=\"{}\" y=\"{}\" font-weight=\"bold\">Ratings"
         "</text>\n",
         num(ml), num(y));
     for (const PlanRating& r : p.ratings) {

@@ -17,11 +17,13 @@
 // numbers in words). Printable in black and white: every line has its own dash pattern and
 // marker, and every line is labelled in words at its end, not by colour alone. Only
 // presentation attributes (no <style>, no style="", no script), so a strict
-// Content-Security-Policy (style-src 'self') does not strip it.
+// Content-Security-Policy (style-src 'self') does not strip it; classes are prefixed "pc-" so a
+// page's stylesheet does not restyle the lines by accident.
 // Every text from outside (labels) is XML-escaped; control characters become U+FFFD. Numbers
 // are finite fixed-point decimals: a non-finite value is left out, never printed.
 // Deterministic. Pure: no I/O, no globals. Never throws for a PlanResult made by plan().
 #pragma once
+#include <optional>
 #include <string>
 
 #include "engine/plan.h"
@@ -29,9 +31,11 @@
 namespace sp::serve {
 
 struct PlanSvgOptions {
-  std::string title;     // e.g. "Tow vehicle + trailer" (escaped); empty: no rig words in the title
-  bool weighed = false;  // true: the plan's baseline is a reconciled weighing (title says so)
-  int width = 760;       // viewBox width in user units (the chart scales to its container)
+  std::string title;  // e.g. "Tow vehicle + trailer" (escaped); empty: no rig words in the title
+  // true: the baseline is a reconciled weighing ("Plan from the weighing"); false: numbers given
+  // ("Plan before weighing"); unknown: the heading says neither.
+  std::optional<bool> weighed;
+  int width = 760;  // viewBox width in user units (the chart scales to its container)
 };
 
 std::string plan_svg(const PlanResult& plan, const PlanSvgOptions& options = {});

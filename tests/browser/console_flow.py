@@ -11,7 +11,8 @@ The whole operator flow of issue 13, through the element ids of the console cont
   3. sessions list and search; open a session for the demo's rig GV-1 on scale QX-1;
   4. key the passes of data-demo/sessions/03-mis-keyed-reading.json as they were keyed (drive of
      ticket QX-4390 keyed 4400 where the scale showed 4040, data-demo/truth/), the first pass from
-     the keyboard alone (Tab / Enter);
+     the keyboard alone (Tab / Enter); a reading off the scale division is refused by name and
+     nothing is stored;
   5. the desk names the flagged reading; void it and re-key it as ticket QX-4392 (4040): the
      verdict turns. The verdicts and flag codes expected are `scaleproof reconcile --json` on the
      same passes (one library, same words on every surface: RULES.md);
@@ -20,8 +21,8 @@ The whole operator flow of issue 13, through the element ids of the console cont
      `scaleproof verify --pubkey`; the verify page says it holds, and fails with one byte flipped;
   8. one form post with JavaScript off (chromium's managed content setting);
   9. SIGINT stops the server with exit 0; `scaleproof check-store` is clean afterwards.
-Screenshots of every page go to DIR/screenshots (and to --screenshots-to when given, the
-committed set for the README). A failed step prints its name, the page's URL and text, and
+Screenshots of every page go to DIR/screenshots; --screenshots-to copies one per page (COMMITTED
+below) there, the committed set for the README. A failed step prints its name, the page's URL and text, and
 exits 1. Exit 77 (ctest: skipped) only when the binary has no `serve` subcommand at all.
 Needs Debian's chromium, chromium-driver and python3-selenium (scripts/setup-debian); selenium
 4.8's Service API (shared/notes/libraries.md, "Browser console").
@@ -51,6 +52,12 @@ CHROMEDRIVER = "/usr/bin/chromedriver"
 START_LINE = re.compile(r"^scaleproof console: http://127\.0\.0\.1:(\d+)/$")
 MIS_KEYED = "sessions/03-mis-keyed-reading.json"  # data-demo/, planted error in truth/03-...
 RIG, SCALE = "GV-1", "QX-1"  # demo.json: the rig made from that session, the station's scale
+
+
+# The committed set (reports/sample/console/, for the README): one shot per page and the two
+# moments of the desk that matter; the build folder keeps every shot.
+COMMITTED = ("01-sessions", "04-session-new", "07-desk-flag", "09-desk-re-keyed", "10-plan",
+             "11-history", "12-ledger", "14-report-issued", "16-verify-holds", "17-verify-fails")
 
 
 class StepFailed(Exception):
@@ -362,6 +369,21 @@ class Flow:
                                            "drive", "trailer")}
             if i == 0:
                 self.key_by_keyboard(entry)
+            elif i == 1:
+                # A reading off the scale division is refused with the field named, nothing is
+                # stored, and the desk keeps the values as keyed so they can be fixed.
+                off = dict(entry, steer=entry["steer"] + 1)
+                self.fill_pass(off)
+                body = self.text()
+                self.expect("steer" in body and "division" in body,
+                            "a steer reading off the division was not refused by name")
+                self.expect(not self.els("#passes tr[data-ticket='%s']" % p["ticket"]),
+                            "the refused pass %s was stored" % p["ticket"])
+                kept = self.el("form#pass-form [name=steer]").get_attribute("value")
+                self.expect(kept == str(off["steer"]), "the desk dropped the keyed steer "
+                            "reading (shows %r)" % kept)
+                self.shot("06-desk-refused")
+                self.fill_pass(entry)
             else:
                 self.fill_pass(entry)
             self.pass_row(p["ticket"])
@@ -428,6 +450,18 @@ class Flow:
         self.get("/sessions/%s/plan" % self.session_id)
         svg = self.el("svg#plan-chart")
         self.expect(svg.get_attribute("role") == "img", "#plan-chart has no role=img")
+        # Every rating the plan carries (the API's plan JSON) is drawn and named in the chart,
+        # and so is the target moment.
+        with urllib.request.urlopen(self.base + "api/sessions/%s/plan" % self.session_id,
+                                    timeout=10) as r:
+            plan = json.loads(r.read())
+        words = self.driver.execute_script("return arguments[0].textContent;", svg)
+        missing = [g["label"] for g in plan["ratings"]
+                   if "%s %.0f" % (g["label"].split(" vs ")[-1], g["limit"]) not in words]
+        self.expect(plan["ratings"] and not missing,
+                    "ratings not drawn in #plan-chart: %s" % missing)
+        if plan.get("target"):
+            self.expect("target" in words, "#plan-chart does not mark the target")
         self.shot("10-plan")
         self.get("/sessions/%s/history" % self.session_id)
         body = self.text()
@@ -609,7 +643,8 @@ class Flow:
             for old in glob.glob(os.path.join(dest, "*.png")):
                 os.remove(old)
             for name in self.shot_names:
-                shutil.copy(os.path.join(self.shots, name + ".png"), dest)
+                if name in COMMITTED:
+                    shutil.copy(os.path.join(self.shots, name + ".png"), dest)
             print("screenshots copied to %s" % dest)
         print("console flow: all %d steps passed; screenshots in %s" % (len(self.passed),
                                                                          self.shots))
