@@ -32,24 +32,6 @@ std::string paint(const std::string& s, const char* code, bool colour) {
   return colour ? fmt::format("\x1b[{}m{}\x1b[0m", code, s) : s;
 }
 
-std::string where_text(const PlanRating& r, const PlanResult& p) {
-  const std::string& mu = p.moment_unit;
-  const bool sweep = p.rows.size() >= 2;
-  const std::string range =
-      sweep ? fmt::format(" from 0 to {} {}", w0(p.rows.back().bar_moment), mu) : "";
-  switch (r.exceeded) {
-    case Exceeded::never:
-      return "not exceeded" + range;
-    case Exceeded::always:
-      return "EXCEEDED" + range;
-    case Exceeded::above:
-      return fmt::format("exceeded above {} {}", w0(*r.boundary), mu);
-    case Exceeded::below:
-      return fmt::format("exceeded below {} {}", w0(*r.boundary), mu);
-  }
-  return "";
-}
-
 double interpolate(const std::vector<PlanRow>& rows, double m, double (*f)(const PlanRow&)) {
   if (rows.size() == 1) return f(rows[0]);
   const double m0 = rows.front().bar_moment, m1 = rows.back().bar_moment;
@@ -178,6 +160,24 @@ std::string text_chart(const std::vector<ChartSeries>& series, double x0, double
   return out;
 }
 
+std::string exceeded_words(const PlanRating& r, const PlanResult& p) {
+  const std::string& mu = p.moment_unit;
+  const bool sweep = p.rows.size() >= 2;
+  const std::string range =
+      sweep ? fmt::format(" from 0 to {} {}", w0(p.rows.back().bar_moment), mu) : "";
+  switch (r.exceeded) {
+    case Exceeded::never:
+      return "not exceeded" + range;
+    case Exceeded::always:
+      return "EXCEEDED" + range;
+    case Exceeded::above:
+      return r.boundary ? fmt::format("exceeded above {} {}", w0(*r.boundary), mu) : "exceeded";
+    case Exceeded::below:
+      return r.boundary ? fmt::format("exceeded below {} {}", w0(*r.boundary), mu) : "exceeded";
+  }
+  return "";
+}
+
 std::string plan_text(const PlanResult& p, const PlanLabels& labels, bool colour) {
   const std::string wu(to_string(p.units.weight)), lu(to_string(p.units.length));
   const std::string& mu = p.moment_unit;
@@ -239,7 +239,7 @@ std::string plan_text(const PlanResult& p, const PlanLabels& labels, bool colour
     for (const PlanRating& r : p.ratings) {
       const bool bad = r.exceeded != Exceeded::never;
       o += fmt::format("  {:<{}}  {:>7} {}  {}\n", r.label, wlabel, w0(r.limit), wu,
-                       paint(where_text(r, p), bad ? "31" : "32", colour));
+                       paint(exceeded_words(r, p), bad ? "31" : "32", colour));
     }
   } else {
     o += "\n  No ratings given: nothing to check the loads against (add --gvwr, --front-gawr, "

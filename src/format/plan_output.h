@@ -35,6 +35,11 @@ struct PlanLabels {
 // when unknown.
 std::string rating_words(const std::string& key);
 
+// Where a rating of the plan is exceeded, in words ("not exceeded from 0 to 2400 lbf·ft",
+// "exceeded above 1650 lbf·ft"): the one wording of the terminal, the JSON-fed console page and
+// the SVG chart.
+std::string exceeded_words(const PlanRating& r, const PlanResult& plan);
+
 std::string plan_text(const PlanResult& plan, const PlanLabels& labels, bool colour = false);
 nlohmann::ordered_json plan_to_json(const PlanResult& plan, const PlanLabels& labels);
 

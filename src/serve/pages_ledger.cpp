@@ -5,6 +5,7 @@
 
 #include "audit/ledger_proof.h"
 #include "audit/ledger_proof_json.h"
+#include "format/plan_output.h"
 #include "ops/plan_session.h"
 #include "serve/handlers.h"
 #include "serve/html.h"
@@ -55,7 +56,9 @@ Response plan_page(const Call& c) {
   if (c.api) return json_response(200, plan_to_json(sp.plan, sp.labels).dump(2));
   const std::string sid = std::to_string(id);
   std::string h = verdict_line(sp.labels.verdict, sp.labels.verdict_reason);
-  h += "<h1>Plan for session " + sid + "</h1>\n<p>" + esc(sp.plan.baseline.source) + ".</p>\n";
+  h += "<h1>Plan for session " + sid + "</h1>\n<p>" +
+       std::string(sp.plan.trailer_type == TrailerType::fifth_wheel ? "Hitched" : "Bars slack") +
+       " from " + esc(sp.plan.baseline.source) + ".</p>\n";
   PlanSvgOptions chart;
   chart.title = sp.labels.tow + " + " + sp.labels.trailer;
   chart.weighed = sp.labels.weighed;
@@ -67,10 +70,7 @@ Response plan_page(const Call& c) {
        "</th></tr></thead><tbody>\n";
   for (const auto& g : sp.plan.ratings) {
     h += "<tr data-rating=\"" + esc(g.rating) + "\"><td>" + esc(g.label) + "</td><td>" +
-         esc(fmt_weight(g.limit)) + "</td><td>" + std::string(to_string(g.exceeded)) +
-         (g.boundary ? " (at " + esc(fmt_weight(*g.boundary)) + " " + esc(sp.plan.moment_unit) + ")"
-                     : "") +
-         "</td></tr>\n";
+         esc(fmt_weight(g.limit)) + "</td><td>" + esc(exceeded_words(g, sp.plan)) + "</td></tr>\n";
   }
   h += "</tbody></table>\n<ul>";
   for (const auto& n : sp.plan.notes) h += "<li>" + esc(n) + "</li>";

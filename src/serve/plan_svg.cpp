@@ -8,6 +8,8 @@
 #include <utility>
 #include <vector>
 
+#include "format/plan_output.h"
+
 namespace sp::serve {
 
 namespace {
@@ -76,24 +78,6 @@ int axle_of(const std::string& key) {
   if (key == "rear_gawr") return 1;
   if (key == "trailer_axle_gawr") return 2;
   return -1;
-}
-
-std::string where_words(const PlanRating& r, const PlanResult& p) {
-  const std::string& mu = p.moment_unit;
-  const bool sweep = p.rows.size() >= 2;
-  const std::string range =
-      sweep ? fmt::format(" from 0 to {} {}", w0(p.rows.back().bar_moment), mu) : "";
-  switch (r.exceeded) {
-    case Exceeded::never:
-      return "not exceeded" + range;
-    case Exceeded::always:
-      return "EXCEEDED" + range;
-    case Exceeded::above:
-      return r.boundary ? fmt::format("exceeded above {} {}", w0(*r.boundary), mu) : "exceeded";
-    case Exceeded::below:
-      return r.boundary ? fmt::format("exceeded below {} {}", w0(*r.boundary), mu) : "exceeded";
-  }
-  return "";
 }
 
 // Tick values covering [lo, hi] with a step of 1, 2, 2.5 or 5 times a power of ten.
@@ -398,7 +382,8 @@ std::string plan_svg(const PlanResult& p, const PlanSvgOptions& options) {
              true};
     panel.lines.push_back(std::move(lim));
     if (r.boundary && (r.exceeded == Exceeded::above || r.exceeded == Exceeded::below))
-      panel.crossings.push_back({*r.boundary, r.limit, rating + " " + where_words(r, p), colour});
+      panel.crossings.push_back(
+          {*r.boundary, r.limit, rating + " " + exceeded_words(r, p), colour});
   }
 
   // Layout.
@@ -440,7 +425,7 @@ std::string plan_svg(const PlanResult& p, const PlanSvgOptions& options) {
   o += fmt::format("<title>{}</title>\n", xml_escape(heading + ": axle loads against bar moment"));
   std::string desc = summary;
   for (const PlanRating& r : p.ratings)
-    desc += fmt::format(" {} {} {}: {}.", r.label, w0(r.limit), wu, where_words(r, p));
+    desc += fmt::format(" {} {} {}: {}.", r.label, w0(r.limit), wu, exceeded_words(r, p));
   desc +=
       " Predictions from the statics, without uncertainty: weigh the rig at the chosen "
       "setting to confirm.";
@@ -481,7 +466,7 @@ std::string plan_svg(const PlanResult& p, const PlanSvgOptions& options) {
       o += fmt::format("<text x=\"{}\" y=\"{}\" data-rating=\"{}\"{}>{} {} {}: {}</text>\n",
                        num(ml + 8), num(y), xml_escape(r.rating),
                        bad ? " font-weight=\"bold\" fill=\"#a3121c\"" : "", xml_escape(r.label),
-                       w0(r.limit), xml_escape(wu), xml_escape(where_words(r, p)));
+                       w0(r.limit), xml_escape(wu), xml_escape(exceeded_words(r, p)));
     }
     o += "</g>\n";
   }
