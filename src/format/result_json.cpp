@@ -16,8 +16,7 @@
 //   travel_pass, unsolved [text],
 //   if_excluded {excluded {ticket, platform, entered} | {field, entered}, result {...}} | null
 //     (result: the same shape, solved without the excluded value; its if_excluded is null)
-// Every u is a standard uncertainty (k = 1); the text summary, the report and the messages
-// show ± 2u (k = 2, about 95 %). `uncertainty` says so inside the document.
+// Every u is standard (k = 1); text, report and messages show ± 2u (k = 2), as `uncertainty` says.
 //
 // append_result_json writes the same document straight into a string (no JSON tree): the bulk
 // path (`reconcile --all --json`) prints one per session. It must stay byte-identical to
