@@ -71,6 +71,7 @@ void register_serve(CLI::App& app, Context& ctx) {
     }
     serve::Config config;
     config.db_path = resolve_db_path(ctx);
+    config.local_operator = who("");
     open_store(ctx);  // fails now, not at the first request, when there is no store
     config.software = std::string("scaleproof ") + SCALEPROOF_VERSION;
     if (!o->key.empty()) {

@@ -266,9 +266,11 @@ Response Console::handle(const Request& in) noexcept {
       visit = hex(random_bytes(16));
       new_visit = true;
     }
-    Call call{req, *state_, api, {}, hmac_hex(state_->secret, "csrf:" + visit), std::nullopt};
+    Call call{req,          *state_,     api, {}, hmac_hex(state_->secret, "csrf:" + visit),
+              std::nullopt, std::nullopt};
     if (state_->config.operators)
       call.operator_name = state_->signins.who(cookie(req, kSignInCookie));
+    call.entered_by = state_->config.operators ? call.operator_name : state_->config.local_operator;
 
     auto finish = [&](Response r) {
       if (new_visit) {

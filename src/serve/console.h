@@ -30,6 +30,10 @@ struct Config {
   std::shared_ptr<const report::Signer> signer;
   // --operators: when set, every write needs a signed-in operator (recorded as entered_by).
   std::optional<std::vector<OperatorEntry>> operators;
+  // Without --operators: who is recorded as entered_by, the same as the CLI's default
+  // ($SCALEPROOF_OPERATOR, else $USER; cli/store_cli.h who()). Ignored with --operators, where
+  // only a signed-in operator writes.
+  std::optional<std::string> local_operator;
   // 2 MiB: a weigh-report is well under a megabyte, and a report, its .sig and a key fit;
   // anything larger is not something the console takes (common practice).
   std::size_t max_body = 2u << 20;

@@ -42,6 +42,8 @@ struct Call {
   std::vector<std::string> args;             // the {id} parts of the path, in order
   std::string csrf;                          // the token forms on this page carry
   std::optional<std::string> operator_name;  // signed in (with --operators)
+  // Who a write is recorded as: the signed-in operator, else (no --operators) the local user.
+  std::optional<std::string> entered_by;
 
   const std::string& field(const std::string& name) const;  // "" when absent
   bool has(const std::string& name) const;

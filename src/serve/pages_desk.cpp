@@ -248,7 +248,7 @@ long long store_pass(const Call& c, long long session) {
   p.drive = required_number(c, "drive", names);
   p.trailer = optional_number(c, "trailer", names);
   p.gross = optional_number(c, "gross", names);
-  p.entered_by = c.operator_name;
+  p.entered_by = c.entered_by;
   auto db = c.st.open_store();
   store::Txn txn(*db, store::Txn::write);
   const Session s = db->load_session(session);
@@ -317,7 +317,7 @@ Response pass_void(const Call& c) {
     throw Error(ExitCode::no_input,
                 "pass " + std::to_string(pass) + ": not in session " + std::to_string(session));
   }
-  db->void_pass(pass, reason, c.operator_name, "");
+  db->void_pass(pass, reason, c.entered_by, "");
   txn.commit();
   if (c.api) return json_response(200, nlohmann::ordered_json{{"voided", pass}}.dump());
   return redirect("/sessions/" + std::to_string(session) + "?rekey=" + std::to_string(pass) +
@@ -328,7 +328,7 @@ Response session_close(const Call& c) {
   const long long session = c.id(0);
   auto db = c.st.open_store();
   store::Txn txn(*db, store::Txn::write);
-  db->close_session(session, c.operator_name, "");
+  db->close_session(session, c.entered_by, "");
   txn.commit();
   if (c.api) return json_response(200, nlohmann::ordered_json{{"closed", session}}.dump());
   return redirect("/sessions/" + std::to_string(session));

@@ -47,7 +47,7 @@ Response report_issue(const Call& c) {
   }
   const ReconcileResult result = reconcile(s);
   opt.issued_at = store::now_utc();
-  opt.signed_by = c.operator_name;
+  opt.signed_by = c.operator_name;  // as the CLI: only a named signer (--signed-by)
   opt.software = c.st.config.software;
   opt.pdf_name = "report-" + std::to_string(id) + ".pdf";
   report::IssuedReport rep;

@@ -176,7 +176,7 @@ Response session_open(const Call& c) {
   ns.ref = opt(c.field("label"));
   ns.owner = opt(c.field("owner"));
   ns.operator_name = c.operator_name ? c.operator_name : opt(c.field("operator"));
-  ns.opened_by = c.operator_name;
+  ns.opened_by = c.entered_by;
   long long id = 0;
   try {
     id = db->open_session(ns);
@@ -204,7 +204,7 @@ Response rig_new_form(const Call& c) {
 Response rig_add(const Call& c) {
   if (c.field("rig_file").empty()) throw data_error("rig_file: expected the rig file's TOML");
   store::RigRecord rig = ops::rig_from_text(c.field("rig_file"), "rig_file", false);
-  rig.entered_by = c.operator_name;
+  rig.entered_by = c.entered_by;
   auto db = c.st.open_store();
   store::Txn txn(*db, store::Txn::write);
   long long id = 0;

@@ -200,3 +200,20 @@ TEST_CASE("operators file: PBKDF2-HMAC-SHA256 and its lines") {
   CHECK_THROWS_WITH(check_operator_name("a:b"), doctest::Contains("--name"));
   CHECK_THROWS_WITH(check_operator_name(""), doctest::Contains("--name"));
 }
+
+TEST_CASE("without operators a write is recorded as the local user, as the CLI records it") {
+  // Parity with `pass add` / `pass void` (cli/store_cli.h who(): $SCALEPROOF_OPERATOR, else
+  // $USER): the ledger row names who keyed it on either surface; the page claims no sign-in.
+  storetest::TempStore ts;
+  load_demo(*ts.store);
+  Config cfg = config_for(ts);
+  cfg.local_operator = "Ottilie Ferncastle";
+  Console console(cfg);
+  Client cl{console, {}, ""};
+  CHECK(cl.get("/sessions/1").body.find("Signed in:") == std::string::npos);
+  REQUIRE(cl.post("/sessions/1/passes", kPass).status == 303);
+  store::Txn txn(*ts.store, store::Txn::read);
+  const auto h = ts.store->session_history(1);
+  txn.commit();
+  CHECK(h.session.passes.back().entered_by == std::optional<std::string>("Ottilie Ferncastle"));
+}
