@@ -172,6 +172,31 @@ std::optional<std::string> SignIns::who(const std::string& token) const {
   return it->second;
 }
 
+long long SignInThrottle::wait_seconds(const std::string& name, long long now) const {
+  std::lock_guard<std::mutex> lock(mu_);
+  auto it = by_name_.find(name);
+  return it == by_name_.end() || it->second.locked_until <= now ? 0 : it->second.locked_until - now;
+}
+
+void SignInThrottle::failed(const std::string& name, long long now) {
+  std::lock_guard<std::mutex> lock(mu_);
+  if (by_name_.size() >= kMaxNames && by_name_.count(name) == 0) {
+    for (auto it = by_name_.begin(); it != by_name_.end();)
+      it = it->second.locked_until > now ? std::next(it) : by_name_.erase(it);
+    if (by_name_.size() >= kMaxNames) return;  // every tracked name is locked: nothing to add
+  }
+  Count& c = by_name_[name];
+  if (++c.failures >= kMaxFailures) {
+    c.failures = 0;
+    c.locked_until = now + kLockSeconds;
+  }
+}
+
+void SignInThrottle::succeeded(const std::string& name) {
+  std::lock_guard<std::mutex> lock(mu_);
+  by_name_.erase(name);
+}
+
 void SignIns::sign_out(const std::string& token) {
   std::lock_guard<std::mutex> lock(mu_);
   by_token_.erase(token);

@@ -10,6 +10,8 @@
 // cookie, the secret only in the process (new at every start), so a page of another site can
 // neither read nor forge it. Tokens compare in constant time (CRYPTO_memcmp).
 #pragma once
+#include <cstddef>
+#include <iterator>
 #include <map>
 #include <mutex>
 #include <optional>
@@ -55,6 +57,30 @@ class SignIns {
  private:
   mutable std::mutex mu_;
   std::map<std::string, std::string> by_token_;
+};
+
+// Failed sign-ins by operator name (known or not, so a lock does not tell names apart): after
+// kMaxFailures in a row a name is refused for kLockSeconds before its password is checked, so
+// guessing costs the guesser time rather than the station's CPU (OWASP Authentication Cheat
+// Sheet, "account lockout": a threshold and a lock period; 5 tries and 60 s are common
+// practice). At most kMaxNames names are tracked; when full, those not locked are forgotten.
+// Thread-safe. `now`: seconds on a monotonic clock.
+class SignInThrottle {
+ public:
+  static constexpr int kMaxFailures = 5;
+  static constexpr long long kLockSeconds = 60;
+  static constexpr std::size_t kMaxNames = 4096;
+  long long wait_seconds(const std::string& name, long long now) const;  // 0: may try now
+  void failed(const std::string& name, long long now);
+  void succeeded(const std::string& name);
+
+ private:
+  struct Count {
+    int failures = 0;
+    long long locked_until = 0;
+  };
+  mutable std::mutex mu_;
+  std::map<std::string, Count> by_name_;
 };
 
 }  // namespace sp::serve

@@ -27,6 +27,9 @@ struct Console::State {
   Config config;
   std::string secret;  // CSRF key, random per process
   SignIns signins;
+  SignInThrottle throttle;
+  std::mutex password_mu;  // one PBKDF2 check at a time (~0.3 s of a core): a flood of
+                           // sign-ins takes one core at most, never the whole machine
   std::mutex reports_mu;
   std::map<std::string, Download> reports;  // the last kMaxDownloads issued
   std::vector<std::string> report_order;

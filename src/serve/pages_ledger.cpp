@@ -1,6 +1,7 @@
 // The ledger (check-store's proof: rows, head hash), the plan of a session, and sign-in.
 #include <fmt/format.h>
 
+#include <chrono>
 #include <nlohmann/json.hpp>
 
 #include "audit/ledger_proof.h"
@@ -93,13 +94,37 @@ Response signin_form(const Call& c) {
 
 Response signin_post(const Call& c) {
   if (!c.st.config.operators) return redirect("/sessions");
+  const long long now = std::chrono::duration_cast<std::chrono::seconds>(
+                            std::chrono::steady_clock::now().time_since_epoch())
+                            .count();
+  const std::string& name = c.field("name");
+  if (const long long wait = c.st.throttle.wait_seconds(name, now); wait > 0) {
+    Response r = html_response(
+        429, page(c, "Sign in",
+                  "<h1>Sign in</h1>\n" +
+                      error_box(fmt::format("name: too many failed sign-ins for this name; try "
+                                            "again in {} s",
+                                            wait)) +
+                      "<p><a href=\"/signin\">Back to sign-in</a></p>\n"));
+    r.headers.emplace_back("Retry-After", std::to_string(wait));
+    return r;
+  }
   const OperatorEntry* found = nullptr;
   for (const auto& o : *c.st.config.operators) {
     if (o.name == c.field("name")) found = &o;
   }
   // The same work for an unknown name, so the time taken does not tell names apart.
   const OperatorEntry dummy{"", kPbkdf2Iterations, std::string(16, 'x'), std::string(32, '\0')};
-  const bool ok = password_matches(found ? *found : dummy, c.field("password")) && found;
+  bool ok = false;
+  {
+    std::lock_guard<std::mutex> lock(c.st.password_mu);
+    ok = password_matches(found ? *found : dummy, c.field("password")) && found;
+  }
+  if (ok) {
+    c.st.throttle.succeeded(name);
+  } else {
+    c.st.throttle.failed(name, now);
+  }
   if (!ok) {
     return html_response(403, page(c, "Sign in",
                                    "<h1>Sign in</h1>\n" +

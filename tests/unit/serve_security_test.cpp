@@ -217,3 +217,45 @@ TEST_CASE("without operators a write is recorded as the local user, as the CLI r
   txn.commit();
   CHECK(h.session.passes.back().entered_by == std::optional<std::string>("Ottilie Ferncastle"));
 }
+
+TEST_CASE("sign-in: five failures lock the name for a minute, then it may try again") {
+  // SignInThrottle (serve/auth.h): threshold and lock period of the OWASP Authentication Cheat
+  // Sheet's account lockout; 5 tries and 60 s are common practice.
+  SignInThrottle t;
+  const long long t0 = 1000;
+  for (int i = 0; i < SignInThrottle::kMaxFailures - 1; ++i) t.failed("Ines Varga", t0);
+  CHECK(t.wait_seconds("Ines Varga", t0) == 0);
+  t.failed("Ines Varga", t0);
+  CHECK(t.wait_seconds("Ines Varga", t0) == SignInThrottle::kLockSeconds);
+  CHECK(t.wait_seconds("Ines Varga", t0 + 59) == 1);
+  CHECK(t.wait_seconds("Ines Varga", t0 + 60) == 0);
+  CHECK(t.wait_seconds("Someone Else", t0) == 0);
+  t.failed("Ines Varga", t0 + 60);  // the count started again after the lock
+  CHECK(t.wait_seconds("Ines Varga", t0 + 60) == 0);
+  t.succeeded("Ines Varga");
+  // Names beyond the cap are not tracked while every tracked one is locked (memory stays bounded).
+  SignInThrottle full;
+  for (std::size_t i = 0; i < SignInThrottle::kMaxNames; ++i)
+    for (int k = 0; k < SignInThrottle::kMaxFailures; ++k) full.failed(std::to_string(i), t0);
+  for (int k = 0; k < SignInThrottle::kMaxFailures; ++k) full.failed("one more", t0);
+  CHECK(full.wait_seconds("one more", t0) == 0);
+  CHECK(full.wait_seconds("0", t0) == SignInThrottle::kLockSeconds);
+}
+
+TEST_CASE("sign-in: the console answers 429 with Retry-After once a name is locked") {
+  storetest::TempStore ts;
+  load_demo(*ts.store);
+  Config cfg = config_for(ts);
+  cfg.operators = parse_operators(operator_line("Ines Varga", "correct horse", 1000) + "\n", "ops");
+  Console console(cfg);
+  Client cl{console, {}, ""};
+  cl.get("/signin");
+  for (int i = 0; i < SignInThrottle::kMaxFailures; ++i)
+    CHECK(cl.post("/signin", {{"name", "Ines Varga"}, {"password", "wrong"}}).status == 403);
+  // Locked: even the right password is not checked now.
+  const Response r = cl.post("/signin", {{"name", "Ines Varga"}, {"password", "correct horse"}});
+  CHECK(r.status == 429);
+  CHECK(!r.header("Retry-After").empty());
+  CHECK(r.body.find("too many failed sign-ins") != std::string::npos);
+  CHECK(cl.get("/sessions").body.find("Signed in:") == std::string::npos);
+}
