@@ -40,8 +40,10 @@ Excluded excluded_words(const Ctx& c, const ExcludedMeasurement& e) {
 
 }  // namespace
 
-std::string verdict_words(const ReportText& t, Verdict v) {
-  return t.get("verdict.words." + key(v));
+// The verdict's own word (engine/verdict.h to_string), not a wording of the report's: the one
+// word the terminal, the JSON and the browser print ("not-proven", not "not proven").
+std::string verdict_words(const ReportText&, Verdict v) {
+  return key(v);
 }
 
 std::string setting_words(const ReportText& t, const TargetResult& tg) {

@@ -20,14 +20,14 @@ done
 [ "$n" = 6 ] || fail "expected 6 demo reports, got $n"
 
 # Page 1 leads with the verdict (issue 12): right under the title, before the first section,
-# in the words of the terminal and the JSON (JSON "not-proven" reads "not proven"). Expected
+# in the very word of the terminal, the JSON and the browser ("not-proven"). Expected
 # verdicts are the demo's design (data-demo/truth/*.json: session 2's drive axle over its
 # GAWR; 3 and 4 carry a planted reading / tape error; 5's tongue rating lies inside 2u).
 expect_verdict() {  # report-N-RIG session-id word
   local b="$1" id="$2" want="$3" json
   tr -s ' \n' ' ' <"$b.p1.txt" >"$b.p1.flat"
   json="$("$SCALEPROOF" --db "$WORK/d/store.db" reconcile --session "$id" --json |
-          python3 -c 'import json,sys; print(json.load(sys.stdin)["verdict"].replace("-", " "))')"
+          python3 -c 'import json,sys; print(json.load(sys.stdin)["verdict"])')"
   [ "$json" = "$want" ] || fail "$b: JSON verdict '$json', expected '$want'"
   python3 - "$b.p1.flat" "$want" <<'PY' || fail "$b: page 1 does not lead with 'Verdict: $want'"
 import sys
@@ -41,8 +41,8 @@ PY
 }
 expect_verdict report-1-RA-1 1 compliant
 expect_verdict report-2-ET-2 2 over
-expect_verdict report-3-GV-1 3 "not proven"
-expect_verdict report-4-HM-1 4 "not proven"
+expect_verdict report-3-GV-1 3 not-proven
+expect_verdict report-4-HM-1 4 not-proven
 expect_verdict report-5-KL-3 5 undecided
 expect_verdict report-6-RA-1 6 compliant
 for b in report-1-RA-1 report-2-ET-2 report-3-GV-1 report-4-HM-1 report-5-KL-3 report-6-RA-1; do
@@ -64,7 +64,7 @@ for b in report-3-GV-1 report-4-HM-1; do
     n_prov=$(grep -oF -- "$label (provisional)" "$b.flat" | wc -l || true)
     [ "$n_all" = "$n_prov" ] || fail "$b: '$label' shown without '(provisional)'"
   done
-  expect_in "$b.flat" "The verdict of this report stays not proven"
+  expect_in "$b.flat" "The verdict of this report stays not-proven"
 done
 
 # The re-solve without the named value (serial elimination: Narasimhan & Jordache, Data
