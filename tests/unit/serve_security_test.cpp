@@ -22,6 +22,14 @@ const std::map<std::string, std::string> kPass = {{"kind", "unhitched"},
                                                   {"steer", "3560"},
                                                   {"drive", "2880"}};
 
+// The console of `ts` with one operator, Ines Varga, password "correct horse". 1000 PBKDF2
+// iterations keep the tests fast; `operator add` always writes kPbkdf2Iterations.
+Config with_one_operator(const storetest::TempStore& ts) {
+  Config cfg = config_for(ts);
+  cfg.operators = parse_operators(operator_line("Ines Varga", "correct horse", 1000) + "\n", "ops");
+  return cfg;
+}
+
 }  // namespace
 
 TEST_CASE("a form post without the right CSRF token is refused and writes nothing") {
@@ -121,10 +129,7 @@ TEST_CASE("a busy store answers 503 with Retry-After and writes nothing") {
 TEST_CASE("with operators every write needs a signed-in operator, recorded as entered_by") {
   storetest::TempStore ts;
   load_demo(*ts.store);
-  Config cfg = config_for(ts);
-  // 1000 iterations keep the test fast; `operator add` always writes kPbkdf2Iterations.
-  cfg.operators = parse_operators(operator_line("Ines Varga", "correct horse", 1000) + "\n", "ops");
-  Console console(cfg);
+  Console console(with_one_operator(ts));
   Client cl{console, {}, ""};
   cl.get("/signin");
   const long long before = rows(*ts.store);
@@ -245,9 +250,7 @@ TEST_CASE("sign-in: five failures lock the name for a minute, then it may try ag
 TEST_CASE("sign-in: the console answers 429 with Retry-After once a name is locked") {
   storetest::TempStore ts;
   load_demo(*ts.store);
-  Config cfg = config_for(ts);
-  cfg.operators = parse_operators(operator_line("Ines Varga", "correct horse", 1000) + "\n", "ops");
-  Console console(cfg);
+  Console console(with_one_operator(ts));
   Client cl{console, {}, ""};
   cl.get("/signin");
   for (int i = 0; i < SignInThrottle::kMaxFailures; ++i)
